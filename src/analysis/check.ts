@@ -1,0 +1,126 @@
+/**
+ * The warnings a user must see about a plan: headroom (boost), instability, frequencies close to
+ * Nyquist, and a high-frequency output with no high-pass edge (a tweeter fed full-range bass can
+ * be destroyed). `check` on the command line and the app's status bar print these.
+ */
+import { designInput, designOutput, type DesignedOutput } from '../design/chain';
+import type { Band, Output, Plan } from '../plan/types';
+import { headroom, type Headroom } from './headroom';
+import { largestPoleRadius } from './poles';
+
+export type Severity = 'info' | 'warning' | 'danger';
+
+export interface Warning {
+  severity: Severity;
+  /** Stable identifier of the kind of warning, for tests and the UI. */
+  code: 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability';
+  /** Where: "input", an output id, or a field path. */
+  where: string;
+  message: string;
+}
+
+/** A frequency above this fraction of Nyquist is flagged: the bilinear transform cramps it. */
+export const NEAR_NYQUIST_FRACTION = 0.9;
+/** A pole radius above this is flagged as marginal (common practice, no source: low-frequency sections at high rates sit near 0.999). */
+export const MARGINAL_POLE_RADIUS = 0.99999;
+
+export interface OutputAnalysis {
+  id: string;
+  headroom: Headroom;
+  largestPoleRadius: number;
+  stable: boolean;
+}
+
+export interface PlanAnalysis {
+  outputs: OutputAnalysis[];
+  warnings: Warning[];
+}
+
+const HIGH_WORDS = /(tweet|treble|horn|high|^hf|_hf|-hf|\bhf\b|top|compression)/i;
+
+/**
+ * An output is treated as high-frequency when its name or id says so, or when it has no low-pass
+ * edge while another output has one (it is the top way).
+ */
+export function looksHighFrequency(plan: Plan, out: Output): boolean {
+  if (HIGH_WORDS.test(out.id) || HIGH_WORDS.test(out.name)) return true;
+  if (plan.outputs.length < 2) return false;
+  return out.lowPass === null && plan.outputs.some((o) => o !== out && o.lowPass !== null);
+}
+
+function nearNyquist(plan: Plan, bands: Band[], where: string, warnings: Warning[]): void {
+  const limit = NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2);
+  for (const b of bands) {
+    if (b.enabled && b.type !== 'raw' && b.frequency > limit) {
+      warnings.push({
+        severity: 'warning',
+        code: 'near-nyquist',
+        where: `${where}/${b.id}`,
+        message: `band ${b.id} at ${fmtHz(b.frequency)} is within ${Math.round((1 - NEAR_NYQUIST_FRACTION) * 100)}% of Nyquist (${fmtHz(plan.sampleRate / 2)}): its shape is cramped by the bilinear transform`,
+      });
+    }
+  }
+}
+
+export function fmtHz(f: number): string {
+  return f >= 1000 ? `${+(f / 1000).toPrecision(4)} kHz` : `${+f.toPrecision(4)} Hz`;
+}
+
+export function analyzeOutput(plan: Plan, d: DesignedOutput): OutputAnalysis {
+  const r = largestPoleRadius(d.sections);
+  return { id: d.id, headroom: headroom(d.sections, d.gain, plan.sampleRate), largestPoleRadius: r, stable: r < 1 };
+}
+
+export function analyzePlan(plan: Plan): PlanAnalysis {
+  const warnings: Warning[] = [];
+  const input = designInput(plan);
+  const outputs = plan.outputs.map((o) => analyzeOutput(plan, designOutput(plan, o, input)));
+
+  nearNyquist(plan, plan.input.bands, 'input', warnings);
+  plan.outputs.forEach((o, i) => {
+    const a = outputs[i];
+    if (!a.stable) {
+      warnings.push({
+        severity: 'danger',
+        code: 'unstable',
+        where: o.id,
+        message: `output ${o.id} is unstable: a pole lies at radius ${a.largestPoleRadius.toFixed(6)} (>= 1); check its raw bands`,
+      });
+    } else if (a.largestPoleRadius > MARGINAL_POLE_RADIUS) {
+      warnings.push({
+        severity: 'warning',
+        code: 'marginal-stability',
+        where: o.id,
+        message: `output ${o.id} has a pole at radius ${a.largestPoleRadius.toFixed(7)}: fixed-point coefficients may make it unstable`,
+      });
+    }
+    if (a.headroom.peakDb > 0) {
+      warnings.push({
+        severity: a.headroom.peakDb > 6 ? 'danger' : 'warning',
+        code: 'headroom',
+        where: o.id,
+        message: `output ${o.id} boosts ${a.headroom.peakDb.toFixed(2)} dB at ${fmtHz(a.headroom.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,
+      });
+    }
+    for (const edge of [o.highPass, o.lowPass]) {
+      if (edge && edge.frequency > NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2)) {
+        warnings.push({
+          severity: 'warning',
+          code: 'near-nyquist',
+          where: o.id,
+          message: `output ${o.id}: an edge at ${fmtHz(edge.frequency)} is close to Nyquist (${fmtHz(plan.sampleRate / 2)})`,
+        });
+      }
+    }
+    nearNyquist(plan, o.bands, o.id, warnings);
+    if (!o.highPass && looksHighFrequency(plan, o)) {
+      warnings.push({
+        severity: 'danger',
+        code: 'no-high-pass',
+        where: o.id,
+        message: `output ${o.id} looks like a high-frequency way but has no high-pass edge: low frequencies can destroy its driver`,
+      });
+    }
+  });
+  return { outputs, warnings };
+}

@@ -1,0 +1,116 @@
+/**
+ * The `coeffs` listing: every output's sections in the file convention
+ * H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), input bands first, in signal order,
+ * with the output's linear gain (polarity included) and delay. Numbers are written in the
+ * shortest form that reads back to the same double, in every format.
+ */
+import { designPlan, type DesignedOutput } from '../design/chain';
+import type { Plan } from '../plan/types';
+
+export interface CoeffsListing {
+  sampleRate: number;
+  outputs: {
+    id: string;
+    gain: number;
+    delayMs: number;
+    delaySamples: number;
+    sections: { b0: number; b1: number; b2: number; a1: number; a2: number; from: string }[];
+  }[];
+}
+
+export function coeffsListing(plan: Plan, outputId?: string): CoeffsListing {
+  const designed = designPlan(plan).filter((d) => outputId === undefined || d.id === outputId);
+  return { sampleRate: plan.sampleRate, outputs: designed.map(listOutput) };
+}
+
+function listOutput(d: DesignedOutput): CoeffsListing['outputs'][number] {
+  return {
+    id: d.id,
+    gain: d.gain,
+    delayMs: d.delayMs,
+    // Rounded to the nearest sample (the response itself uses the exact delay).
+    delaySamples: Math.round(d.delaySamplesExact),
+    sections: d.sections.map((s) => ({ b0: s.b0, b1: s.b1, b2: s.b2, a1: s.a1, a2: s.a2, from: s.from })),
+  };
+}
+
+/** Shortest round-trip decimal; -0 written as 0. */
+export function num(x: number): string {
+  return Object.is(x, -0) ? '0' : String(x);
+}
+
+export function coeffsJsonText(l: CoeffsListing): string {
+  return JSON.stringify(l, null, 2) + '\n';
+}
+
+export function coeffsCsvText(l: CoeffsListing): string {
+  const rows = ['output,section,from,b0,b1,b2,a1,a2,gain,delayMs,delaySamples'];
+  for (const o of l.outputs) {
+    o.sections.forEach((s, i) => {
+      rows.push([o.id, i + 1, s.from, num(s.b0), num(s.b1), num(s.b2), num(s.a1), num(s.a2), num(o.gain), num(o.delayMs), o.delaySamples].join(','));
+    });
+    if (o.sections.length === 0) rows.push([o.id, 0, '', '', '', '', '', '', num(o.gain), num(o.delayMs), o.delaySamples].join(','));
+  }
+  return rows.join('\n') + '\n';
+}
+
+export function coeffsText(l: CoeffsListing, planName: string): string {
+  const lines = [
+    `# ${planName}`,
+    `# sample rate ${l.sampleRate} Hz`,
+    '# H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order',
+  ];
+  for (const o of l.outputs) {
+    lines.push('', `output ${o.id}: gain ${num(o.gain)} (linear, polarity included), delay ${num(o.delayMs)} ms = ${o.delaySamples} samples, ${o.sections.length} sections`);
+    o.sections.forEach((s, i) => {
+      lines.push(`  ${String(i + 1).padStart(2)}  b0=${num(s.b0)} b1=${num(s.b1)} b2=${num(s.b2)} a1=${num(s.a1)} a2=${num(s.a2)}  (${s.from})`);
+    });
+  }
+  return lines.join('\n') + '\n';
+}
+
+/** A C literal that reads back to the same double. */
+export function cDouble(x: number): string {
+  const s = num(x);
+  return /[.eE]/.test(s) ? s : `${s}.0`;
+}
+
+export function cIdentifier(id: string): string {
+  const s = id.replace(/[^A-Za-z0-9_]/g, '_');
+  return /^[0-9]/.test(s) ? `_${s}` : s;
+}
+
+export function coeffsCText(l: CoeffsListing, planName: string): string {
+  const lines = [
+    '/*',
+    ` * Biquad coefficients: ${planName.replace(/\*\//g, '* /')}`,
+    ` * Sample rate: ${l.sampleRate} Hz`,
+    ' * Convention: H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2),',
+    ' * y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] - a1 y[n-1] - a2 y[n-2].',
+    ' * Each row is {b0, b1, b2, a1, a2}, sections in signal order (input chain first).',
+    ' * Gain is linear with polarity included; delay rounded to whole samples.',
+    ' */',
+    '#ifndef BIQUADRANT_COEFFS_H',
+    '#define BIQUADRANT_COEFFS_H',
+    '',
+    `#define BQ_SAMPLE_RATE ${l.sampleRate}`,
+  ];
+  for (const o of l.outputs) {
+    const name = cIdentifier(o.id).toUpperCase();
+    const lower = cIdentifier(o.id).toLowerCase();
+    lines.push('', `/* output ${o.id} */`, `#define BQ_${name}_SECTIONS ${o.sections.length}`, `#define BQ_${name}_DELAY_SAMPLES ${o.delaySamples}`);
+    lines.push(`static const double bq_${lower}_gain = ${cDouble(o.gain)};`);
+    if (o.sections.length === 0) {
+      lines.push(`/* no sections: bq_${lower}_sos is omitted (C has no empty arrays) */`);
+      continue;
+    }
+    lines.push(`static const double bq_${lower}_sos[${o.sections.length}][5] = {`);
+    o.sections.forEach((s, i) => {
+      const sep = i === o.sections.length - 1 ? '' : ',';
+      lines.push(`  { ${[s.b0, s.b1, s.b2, s.a1, s.a2].map(cDouble).join(', ')} }${sep} /* ${s.from.replace(/\*\//g, '* /')} */`);
+    });
+    lines.push('};');
+  }
+  lines.push('', '#endif /* BIQUADRANT_COEFFS_H */');
+  return lines.join('\n') + '\n';
+}

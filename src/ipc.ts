@@ -1,0 +1,89 @@
+/**
+ * The one typed contract between the Electron main process, its preload and the renderer.
+ *
+ * The preload exposes exactly `DesktopApi` as `window.biquadrant`, one method per message; main
+ * validates every payload (plans with the core's reader) and checks the sender. The renderer
+ * never imports `electron/`: it reaches the host through its host adapter, which uses this API in
+ * Electron and browser fallbacks elsewhere.
+ */
+import type { Plan } from './plan/types';
+
+/** Channel names, one per method. */
+export const IPC = {
+  openPlan: 'plan:open',
+  openRecent: 'plan:open-recent',
+  savePlan: 'plan:save',
+  savePlanAs: 'plan:save-as',
+  revertPlan: 'plan:revert',
+  autosave: 'plan:autosave',
+  takeRecovery: 'plan:take-recovery',
+  discardRecovery: 'plan:discard-recovery',
+  initialDocument: 'plan:initial',
+  setDirty: 'window:set-dirty',
+  saveText: 'file:save-text',
+  menuCommand: 'menu:command',
+} as const;
+
+/** A document as the renderer holds it: the plan and where it lives on disk (null: never saved). */
+export interface PlanDocument {
+  plan: Plan;
+  path: string | null;
+}
+
+export type HostResult<T> = { ok: true; value: T } | { ok: false; error: string } | { ok: false; cancelled: true };
+
+/** Commands the application menu sends to the focused window's renderer. */
+export type MenuCommand =
+  | 'new'
+  | 'open'
+  | 'save'
+  | 'saveAs'
+  | 'revert'
+  | 'undo'
+  | 'redo'
+  | 'export'
+  | 'view:response'
+  | 'view:zplane'
+  | 'view:time'
+  | 'view:export';
+
+export const MENU_COMMANDS: readonly MenuCommand[] = [
+  'new',
+  'open',
+  'save',
+  'saveAs',
+  'revert',
+  'undo',
+  'redo',
+  'export',
+  'view:response',
+  'view:zplane',
+  'view:time',
+  'view:export',
+];
+
+export interface DesktopApi {
+  /** Shows an open dialog (`*.bqplan`) and reads the chosen plan; a bad file is refused with the reader's message. */
+  openPlan(): Promise<HostResult<PlanDocument>>;
+  /** Opens a plan from the recent list by path. */
+  openRecent(path: string): Promise<HostResult<PlanDocument>>;
+  /** Saves to `path` (atomic, keeps `*.bqplan.bak`); with no path, asks where. Returns the path written. */
+  savePlan(plan: Plan, path: string | null): Promise<HostResult<string>>;
+  /** Always asks where. */
+  savePlanAs(plan: Plan, suggestedPath: string | null): Promise<HostResult<string>>;
+  /** Re-reads the plan from disk. */
+  revertPlan(path: string): Promise<HostResult<PlanDocument>>;
+  /** Stores unsaved work in the user data folder (crash recovery). */
+  autosave(doc: PlanDocument): Promise<void>;
+  /** The autosaved document left by a crash, if any (removed from the recovery slot once taken). */
+  takeRecovery(): Promise<PlanDocument | null>;
+  discardRecovery(): Promise<void>;
+  /** The document this window was opened for (a path from the command line or the OS), or null. */
+  initialDocument(): Promise<HostResult<PlanDocument> | null>;
+  /** Tells main whether the window has unsaved changes (for the close prompt and the title). */
+  setDirty(dirty: boolean, title: string): void;
+  /** Save dialog for an export (text). */
+  saveText(suggestedName: string, text: string, extensions: string[]): Promise<HostResult<string>>;
+  /** Subscribes to menu commands; returns an unsubscribe function. */
+  onMenuCommand(listener: (command: MenuCommand) => void): () => void;
+}

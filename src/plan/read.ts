@@ -1,0 +1,287 @@
+/**
+ * Reading a plan: JSON text or a parsed value in, a complete `Plan` or one `PlanError` out.
+ *
+ * Every error names the field path (`outputs[1].bands[0].q: must be > 0`). Numbers must be
+ * plain finite JSON numbers: NaN, Infinity and numbers written as strings are refused. A field the
+ * contract does not know is refused too, rather than dropped: a plan never loses data silently.
+ * Older versions are migrated (see `migrate.ts`); a version this build does not know is refused.
+ */
+import { maxShelfSlope } from '../design/cookbook';
+import { migrate } from './migrate';
+import {
+  BAND_TYPES,
+  BESSEL_NORMALIZATIONS,
+  CROSSOVER_FAMILIES,
+  LIMITS,
+  PLAN_FORMAT,
+  PLAN_VERSION,
+  type Band,
+  type BandType,
+  type BesselNormalization,
+  type Crossover,
+  type CrossoverFamily,
+  type Output,
+  type Plan,
+  type RawCoefficients,
+} from './types';
+
+export class PlanError extends Error {
+  constructor(
+    /** Field path, e.g. `outputs[1].bands[0].q`; empty for the whole document. */
+    readonly path: string,
+    readonly reason: string,
+  ) {
+    super(path ? `${path}: ${reason}` : reason);
+    this.name = 'PlanError';
+  }
+}
+
+export type ReadResult = { ok: true; plan: Plan } | { ok: false; error: PlanError };
+
+/** Parses JSON text and reads it as a plan. Never throws. */
+export function readPlanText(text: string): ReadResult {
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch (e) {
+    return { ok: false, error: new PlanError('', `not valid JSON (${(e as Error).message})`) };
+  }
+  return readPlanValue(value);
+}
+
+/** Reads an already parsed value as a plan. Never throws. */
+export function readPlanValue(value: unknown): ReadResult {
+  try {
+    return { ok: true, plan: readPlan(value) };
+  } catch (e) {
+    if (e instanceof PlanError) return { ok: false, error: e };
+    return { ok: false, error: new PlanError('', `unreadable plan (${(e as Error).message})`) };
+  }
+}
+
+/** Reads a plan; throws `PlanError`. */
+export function readPlan(value: unknown): Plan {
+  const root = object(value, '');
+  const format = root.format;
+  if (format !== PLAN_FORMAT) {
+    throw new PlanError('format', `must be "${PLAN_FORMAT}" (this is not a Biquadrant plan)`);
+  }
+  const version = root.version;
+  if (typeof version !== 'number' || !Number.isInteger(version)) throw new PlanError('version', 'must be a whole number');
+  if (version < 1 || version > PLAN_VERSION) {
+    throw new PlanError('version', `${version} is not supported: this build reads plan versions 1 to ${PLAN_VERSION}; a newer Biquadrant may open it`);
+  }
+  const current = object(migrate(root, version), '');
+  return readCurrent(current);
+}
+
+function readCurrent(o: Record<string, unknown>): Plan {
+  allowKeys(o, '', ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs']);
+  const sampleRate = num(o.sampleRate, 'sampleRate');
+  if (sampleRate < LIMITS.sampleRateMinHz || sampleRate > LIMITS.sampleRateMaxHz) {
+    throw new PlanError('sampleRate', `must be between ${LIMITS.sampleRateMinHz} and ${LIMITS.sampleRateMaxHz} Hz`);
+  }
+  const plan: Plan = {
+    format: PLAN_FORMAT,
+    version: PLAN_VERSION,
+    name: str(o.name, 'name', LIMITS.nameMaxLength),
+    sampleRate,
+    input: { bands: [] },
+    outputs: [],
+  };
+  if (o.notes !== undefined) plan.notes = str(o.notes, 'notes', 100000);
+  const input = object(o.input, 'input');
+  allowKeys(input, 'input', ['bands']);
+  plan.input.bands = readBands(input.bands, 'input.bands', sampleRate);
+
+  const outputs = array(o.outputs, 'outputs');
+  if (outputs.length < LIMITS.outputsMin || outputs.length > LIMITS.outputsMax) {
+    throw new PlanError('outputs', `must hold ${LIMITS.outputsMin} to ${LIMITS.outputsMax} outputs (has ${outputs.length})`);
+  }
+  const ids = new Set<string>();
+  outputs.forEach((v, i) => {
+    const out = readOutput(v, `outputs[${i}]`, sampleRate);
+    if (ids.has(out.id)) throw new PlanError(`outputs[${i}].id`, `"${out.id}" is used by another output`);
+    ids.add(out.id);
+    plan.outputs.push(out);
+  });
+  return plan;
+}
+
+function readOutput(v: unknown, path: string, fs: number): Output {
+  const o = object(v, path);
+  allowKeys(o, path, ['id', 'name', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands']);
+  const id = str(o.id, `${path}.id`, 32);
+  if (!LIMITS.idPattern.test(id)) throw new PlanError(`${path}.id`, 'must be 1 to 32 of a-z, 0-9, "_" or "-"');
+  const gainDb = o.gainDb === undefined ? 0 : num(o.gainDb, `${path}.gainDb`);
+  if (Math.abs(gainDb) > LIMITS.outputGainDbAbsMax) throw new PlanError(`${path}.gainDb`, `must be within +/-${LIMITS.outputGainDbAbsMax} dB`);
+  const delayMs = o.delayMs === undefined ? 0 : num(o.delayMs, `${path}.delayMs`);
+  if (delayMs < 0) throw new PlanError(`${path}.delayMs`, 'must be >= 0');
+  if (delayMs > LIMITS.delayMsMax) throw new PlanError(`${path}.delayMs`, `must be at most ${LIMITS.delayMsMax} ms`);
+  return {
+    id,
+    name: o.name === undefined ? id : str(o.name, `${path}.name`, LIMITS.nameMaxLength),
+    gainDb,
+    delayMs,
+    invert: o.invert === undefined ? false : bool(o.invert, `${path}.invert`),
+    mute: o.mute === undefined ? false : bool(o.mute, `${path}.mute`),
+    highPass: readEdge(o.highPass, `${path}.highPass`, fs),
+    lowPass: readEdge(o.lowPass, `${path}.lowPass`, fs),
+    bands: readBands(o.bands, `${path}.bands`, fs),
+  };
+}
+
+function readEdge(v: unknown, path: string, fs: number): Crossover | null {
+  if (v === undefined || v === null) return null;
+  const o = object(v, path);
+  allowKeys(o, path, ['family', 'order', 'frequency', 'normalization']);
+  const family = oneOf(o.family, `${path}.family`, CROSSOVER_FAMILIES) as CrossoverFamily;
+  const order = num(o.order, `${path}.order`);
+  if (!Number.isInteger(order) || order < LIMITS.orderMin || order > LIMITS.orderMax) {
+    throw new PlanError(`${path}.order`, `must be a whole number from ${LIMITS.orderMin} to ${LIMITS.orderMax}`);
+  }
+  if (family === 'linkwitz-riley' && !LIMITS.linkwitzRileyOrders.includes(order)) {
+    throw new PlanError(`${path}.order`, 'linkwitz-riley takes order 2, 4, 6 or 8');
+  }
+  const edge: Crossover = { family, order, frequency: frequency(o.frequency, `${path}.frequency`, fs) };
+  if (family === 'bessel') {
+    edge.normalization = o.normalization === undefined ? 'phase' : (oneOf(o.normalization, `${path}.normalization`, BESSEL_NORMALIZATIONS) as BesselNormalization);
+  } else if (o.normalization !== undefined) {
+    throw new PlanError(`${path}.normalization`, 'applies to bessel edges only');
+  }
+  return edge;
+}
+
+function readBands(v: unknown, path: string, fs: number): Band[] {
+  if (v === undefined) return [];
+  const list = array(v, path);
+  if (list.length > LIMITS.bandsMax) throw new PlanError(path, `must hold at most ${LIMITS.bandsMax} bands`);
+  const ids = new Set<string>();
+  return list.map((b, i) => {
+    const band = readBand(b, `${path}[${i}]`, fs);
+    if (ids.has(band.id)) throw new PlanError(`${path}[${i}].id`, `"${band.id}" is used by another band of this chain`);
+    ids.add(band.id);
+    return band;
+  });
+}
+
+const BAND_KEYS = ['id', 'type', 'frequency', 'gainDb', 'q', 'slope', 'enabled', 'coefficients'];
+
+function readBand(v: unknown, path: string, fs: number): Band {
+  const o = object(v, path);
+  allowKeys(o, path, BAND_KEYS);
+  const id = str(o.id, `${path}.id`, LIMITS.bandIdMaxLength);
+  if (id.length === 0) throw new PlanError(`${path}.id`, 'must not be empty');
+  const type = oneOf(o.type, `${path}.type`, BAND_TYPES) as BandType;
+  const isRaw = type === 'raw';
+  const band: Band = {
+    id,
+    type,
+    frequency: isRaw && o.frequency === undefined ? 1000 : frequency(o.frequency, `${path}.frequency`, fs),
+    enabled: o.enabled === undefined ? true : bool(o.enabled, `${path}.enabled`),
+  };
+  if (o.gainDb !== undefined) {
+    band.gainDb = num(o.gainDb, `${path}.gainDb`);
+    if (Math.abs(band.gainDb) > LIMITS.gainDbAbsMax) throw new PlanError(`${path}.gainDb`, `must be within +/-${LIMITS.gainDbAbsMax} dB`);
+  }
+  if (o.q !== undefined) {
+    band.q = num(o.q, `${path}.q`);
+    if (!(band.q > 0)) throw new PlanError(`${path}.q`, 'must be > 0');
+    if (band.q > LIMITS.qMax) throw new PlanError(`${path}.q`, `must be at most ${LIMITS.qMax}`);
+  }
+  if (o.slope !== undefined) {
+    band.slope = num(o.slope, `${path}.slope`);
+    if (!(band.slope > 0)) throw new PlanError(`${path}.slope`, 'must be > 0');
+    if ((type === 'lowShelf' || type === 'highShelf') && band.q === undefined) {
+      const max = maxShelfSlope(band.gainDb ?? 0);
+      // A hair of tolerance for slopes typed at the limit; shelfAlpha clamps the rest.
+      if (band.slope > max * (1 + 1e-9)) {
+        throw new PlanError(`${path}.slope`, `must be at most ${max.toPrecision(6)} for a ${band.gainDb ?? 0} dB shelf (steeper has no real alpha)`);
+      }
+    }
+  }
+  if (o.coefficients !== undefined) band.coefficients = readCoefficients(o.coefficients, `${path}.coefficients`);
+  if (isRaw && !band.coefficients) throw new PlanError(`${path}.coefficients`, 'required for a raw band');
+  return band;
+}
+
+function readCoefficients(v: unknown, path: string): RawCoefficients {
+  const o = object(v, path);
+  allowKeys(o, path, ['b0', 'b1', 'b2', 'a0', 'a1', 'a2']);
+  const c: RawCoefficients = {
+    b0: num(o.b0, `${path}.b0`),
+    b1: num(o.b1, `${path}.b1`),
+    b2: num(o.b2, `${path}.b2`),
+    a0: o.a0 === undefined ? 1 : num(o.a0, `${path}.a0`),
+    a1: num(o.a1, `${path}.a1`),
+    a2: num(o.a2, `${path}.a2`),
+  };
+  if (c.a0 === 0) throw new PlanError(`${path}.a0`, 'must not be 0');
+  const scaled = [c.b0, c.b1, c.b2, c.a1, c.a2].map((x) => x / c.a0);
+  if (!scaled.every(Number.isFinite)) throw new PlanError(`${path}.a0`, 'too small: dividing by it overflows');
+  return c;
+}
+
+// ---- small typed readers -------------------------------------------------------------------
+
+function describe(v: unknown): string {
+  if (v === null) return 'null';
+  if (Array.isArray(v)) return 'a list';
+  if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 40 ? v.slice(0, 40) + '...' : v)}`;
+  return typeof v === 'object' ? 'an object' : `${typeof v} ${String(v)}`;
+}
+
+function object(v: unknown, path: string): Record<string, unknown> {
+  if (typeof v !== 'object' || v === null || Array.isArray(v)) {
+    throw new PlanError(path, `must be an object, not ${describe(v)}`);
+  }
+  return v as Record<string, unknown>;
+}
+
+function array(v: unknown, path: string): unknown[] {
+  if (!Array.isArray(v)) throw new PlanError(path, `must be a list, not ${v === undefined ? 'missing' : describe(v)}`);
+  return v;
+}
+
+function num(v: unknown, path: string): number {
+  if (v === undefined) throw new PlanError(path, 'is required');
+  if (typeof v !== 'number') throw new PlanError(path, `must be a number, not ${describe(v)}`);
+  if (!Number.isFinite(v)) throw new PlanError(path, 'must be a finite number');
+  return v;
+}
+
+function str(v: unknown, path: string, maxLength: number): string {
+  if (v === undefined) throw new PlanError(path, 'is required');
+  if (typeof v !== 'string') throw new PlanError(path, `must be a string, not ${describe(v)}`);
+  if (v.length > maxLength) throw new PlanError(path, `must be at most ${maxLength} characters`);
+  return v;
+}
+
+function bool(v: unknown, path: string): boolean {
+  if (typeof v !== 'boolean') throw new PlanError(path, `must be true or false, not ${describe(v)}`);
+  return v;
+}
+
+function oneOf(v: unknown, path: string, allowed: readonly string[]): string {
+  if (v === undefined) throw new PlanError(path, 'is required');
+  if (typeof v !== 'string' || !allowed.includes(v)) {
+    throw new PlanError(path, `must be one of ${allowed.map((a) => `"${a}"`).join(', ')}, not ${describe(v)}`);
+  }
+  return v;
+}
+
+function frequency(v: unknown, path: string, fs: number): number {
+  const f = num(v, path);
+  if (!(f > 0)) throw new PlanError(path, 'must be > 0 Hz');
+  if (!(f < fs / 2)) throw new PlanError(path, `must be below Nyquist (${fs / 2} Hz at ${fs} Hz)`);
+  return f;
+}
+
+function allowKeys(o: Record<string, unknown>, path: string, allowed: readonly string[]): void {
+  for (const key of Object.keys(o)) {
+    if (!allowed.includes(key)) {
+      const where = path ? `${path}.${key}` : key;
+      throw new PlanError(where, `is not a field of this plan version (allowed here: ${allowed.join(', ')})`);
+    }
+  }
+}

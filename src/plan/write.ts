@@ -1,0 +1,54 @@
+/**
+ * Writing a plan: UTF-8 JSON, 2-space indent, one stable key order (the order of the contract),
+ * so plans diff well under version control. Optional band fields are written when set.
+ */
+import type { Band, Crossover, Output, Plan } from './types';
+
+function edge(e: Crossover | null): Record<string, unknown> | null {
+  if (!e) return null;
+  const o: Record<string, unknown> = { family: e.family, order: e.order, frequency: e.frequency };
+  if (e.normalization !== undefined) o.normalization = e.normalization;
+  return o;
+}
+
+function band(b: Band): Record<string, unknown> {
+  const o: Record<string, unknown> = { id: b.id, type: b.type, frequency: b.frequency };
+  if (b.gainDb !== undefined) o.gainDb = b.gainDb;
+  if (b.q !== undefined) o.q = b.q;
+  if (b.slope !== undefined) o.slope = b.slope;
+  o.enabled = b.enabled;
+  if (b.coefficients) {
+    const c = b.coefficients;
+    o.coefficients = { b0: c.b0, b1: c.b1, b2: c.b2, a0: c.a0, a1: c.a1, a2: c.a2 };
+  }
+  return o;
+}
+
+function output(x: Output): Record<string, unknown> {
+  return {
+    id: x.id,
+    name: x.name,
+    gainDb: x.gainDb,
+    delayMs: x.delayMs,
+    invert: x.invert,
+    mute: x.mute,
+    highPass: edge(x.highPass),
+    lowPass: edge(x.lowPass),
+    bands: x.bands.map(band),
+  };
+}
+
+/** The plan as a plain object in the file's key order. */
+export function planToJson(plan: Plan): Record<string, unknown> {
+  const o: Record<string, unknown> = { format: plan.format, version: plan.version, name: plan.name };
+  if (plan.notes !== undefined) o.notes = plan.notes;
+  o.sampleRate = plan.sampleRate;
+  o.input = { bands: plan.input.bands.map(band) };
+  o.outputs = plan.outputs.map(output);
+  return o;
+}
+
+/** The file text, ending with a newline. */
+export function writePlanText(plan: Plan): string {
+  return JSON.stringify(planToJson(plan), null, 2) + '\n';
+}

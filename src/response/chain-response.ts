@@ -1,0 +1,161 @@
+/**
+ * Responses of designed outputs and of their complex (acoustic) sum, on any frequency list.
+ *
+ * An output is its cascade times its linear gain (polarity included) times a pure delay of
+ * D samples, e^{-j w D}: the delay adds D to the group delay and -w D to the phase, unrounded.
+ *
+ * The sum S = sum_k c_k H_k has dS/dw = sum_k c_k H_k (d ln H_k/dw - j D_k), with
+ * d ln H_k / dw = slope_k - j tau_k from the kernel, so its group delay -Im(S'/S) is exact too.
+ */
+import type { Section } from '../design/section';
+import { packSections } from '../design/section';
+import type { DesignedOutput } from '../design/chain';
+import { allocateKernelOutput, cascadeResponse, normalizedOmega } from './kernel';
+
+/** Magnitude below which phase and group delay carry no information (the CLI writes null). */
+export const MAGNITUDE_FLOOR_DB = -200;
+
+export interface Response {
+  /** 20 log10 |H|. */
+  magnitudeDb: Float64Array;
+  /** Wrapped to (-pi, pi]. */
+  phaseRad: Float64Array;
+  /** Unwrapped along the frequency list (the delay's -w D is added exactly, not unwrapped). */
+  phaseUnwrappedRad: Float64Array;
+  /** Group delay in ms, delay included; NaN where the magnitude is below MAGNITUDE_FLOOR_DB. */
+  groupDelayMs: Float64Array;
+  /** d ln|H| / dw (per radian per sample), for sums. */
+  logSlope: Float64Array;
+}
+
+/** Wraps an angle to (-pi, pi]. */
+export function wrapPi(x: number): number {
+  let y = x - 2 * Math.PI * Math.floor((x + Math.PI) / (2 * Math.PI)); // [-pi, pi)
+  if (y <= -Math.PI) y += 2 * Math.PI;
+  return y;
+}
+
+/** numpy.unwrap: adds multiples of 2 pi where consecutive points jump by more than pi. */
+export function unwrapInto(wrapped: Float64Array, out: Float64Array): void {
+  let offset = 0;
+  for (let i = 0; i < wrapped.length; i++) {
+    if (i > 0) {
+      const d = wrapped[i] - wrapped[i - 1];
+      if (d > Math.PI) offset -= 2 * Math.PI * Math.round(d / (2 * Math.PI));
+      else if (d < -Math.PI) offset += 2 * Math.PI * Math.round(-d / (2 * Math.PI));
+    }
+    out[i] = wrapped[i] + offset;
+  }
+}
+
+/**
+ * The response of a cascade with a linear gain and a delay of `delaySamples` at sample rate fs.
+ * `omega` is 2 pi f / fs for each frequency (see `normalizedOmega`).
+ */
+export function cascadeWithGainDelay(
+  sections: readonly Section[],
+  gain: number,
+  delaySamples: number,
+  omega: Float64Array,
+  sampleRateHz: number,
+): Response {
+  const n = omega.length;
+  const k = allocateKernelOutput(n);
+  cascadeResponse(packSections(sections), sections.length, omega, k);
+  const gainDb = 20 * Math.log10(Math.abs(gain));
+  const flip = gain < 0 ? Math.PI : 0;
+  const filterPhase = new Float64Array(n);
+  const phaseRad = new Float64Array(n);
+  const groupDelayMs = new Float64Array(n);
+  const msPerSample = 1000 / sampleRateHz;
+  for (let i = 0; i < n; i++) {
+    k.magnitudeDb[i] += gain === 0 ? -Infinity : gainDb;
+    filterPhase[i] = wrapPi(k.phaseRad[i] + flip);
+    phaseRad[i] = wrapPi(filterPhase[i] - omega[i] * delaySamples);
+    groupDelayMs[i] = k.magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : (k.groupDelaySamples[i] + delaySamples) * msPerSample;
+  }
+  const phaseUnwrappedRad = new Float64Array(n);
+  unwrapInto(filterPhase, phaseUnwrappedRad);
+  for (let i = 0; i < n; i++) phaseUnwrappedRad[i] -= omega[i] * delaySamples;
+  return { magnitudeDb: k.magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope: k.logSlope };
+}
+
+export function outputResponse(out: DesignedOutput, omega: Float64Array, sampleRateHz: number): Response {
+  return cascadeWithGainDelay(out.sections, out.gain, out.delaySamplesExact, omega, sampleRateHz);
+}
+
+/**
+ * The complex sum of responses (all already including gain, polarity and delay), with its exact
+ * group delay. Returns a response of -Infinity dB everywhere when `parts` is empty.
+ */
+export function sumResponses(parts: readonly Response[], omega: Float64Array, sampleRateHz: number): Response {
+  const n = omega.length;
+  const magnitudeDb = new Float64Array(n);
+  const phaseRad = new Float64Array(n);
+  const groupDelayMs = new Float64Array(n);
+  const logSlope = new Float64Array(n);
+  const msPerSample = 1000 / sampleRateHz;
+  for (let i = 0; i < n; i++) {
+    let sr = 0;
+    let si = 0;
+    let dr = 0;
+    let di = 0;
+    for (const p of parts) {
+      const m = Math.pow(10, p.magnitudeDb[i] / 20);
+      if (m === 0) continue;
+      const hr = m * Math.cos(p.phaseRad[i]);
+      const hi = m * Math.sin(p.phaseRad[i]);
+      sr += hr;
+      si += hi;
+      // d(c H)/dw = c H (slope - j tau), tau in samples including the delay.
+      const tauSamples = p.groupDelayMs[i] / msPerSample;
+      const a = p.logSlope[i];
+      if (!Number.isFinite(tauSamples)) continue;
+      dr += hr * a + hi * tauSamples;
+      di += hi * a - hr * tauSamples;
+    }
+    const s2 = sr * sr + si * si;
+    magnitudeDb[i] = 10 * Math.log10(s2);
+    phaseRad[i] = wrapPi(Math.atan2(si, sr));
+    // S'/S = (dr + j di)(sr - j si) / |S|^2; tau = -Im(S'/S), slope = Re(S'/S).
+    const tau = -(di * sr - dr * si) / s2;
+    logSlope[i] = (dr * sr + di * si) / s2;
+    groupDelayMs[i] = magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : tau * msPerSample;
+  }
+  const phaseUnwrappedRad = new Float64Array(n);
+  unwrapInto(phaseRad, phaseUnwrappedRad);
+  return { magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope };
+}
+
+export interface PlanResponse {
+  frequenciesHz: Float64Array;
+  outputs: { id: string; mute: boolean; response: Response }[];
+  sum: Response;
+}
+
+/** Every output's response (muted ones too, flagged) and the sum of the unmuted ones. */
+export function designedResponse(outputs: readonly DesignedOutput[], frequenciesHz: ArrayLike<number>, sampleRateHz: number): PlanResponse {
+  const freqs = Float64Array.from(frequenciesHz);
+  const omega = normalizedOmega(freqs, sampleRateHz);
+  const rs = outputs.map((o) => ({ id: o.id, mute: o.mute, response: outputResponse(o, omega, sampleRateHz) }));
+  const sum = sumResponses(
+    rs.filter((r) => !r.mute).map((r) => r.response),
+    omega,
+    sampleRateHz,
+  );
+  return { frequenciesHz: freqs, outputs: rs, sum };
+}
+
+/** n log-spaced frequencies from `fromHz` to `toHz` inclusive. */
+export function logFrequencies(n: number, fromHz: number, toHz: number): Float64Array {
+  const out = new Float64Array(n);
+  if (n === 1) {
+    out[0] = fromHz;
+    return out;
+  }
+  const l0 = Math.log(fromHz);
+  const step = (Math.log(toHz) - l0) / (n - 1);
+  for (let i = 0; i < n; i++) out[i] = Math.exp(l0 + i * step);
+  out[n - 1] = toHz;
+  return out;
+}
