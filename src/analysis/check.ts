@@ -23,6 +23,8 @@ export interface Warning {
 export const NEAR_NYQUIST_FRACTION = 0.9;
 /** A pole radius above this is flagged as marginal (common practice, no source: low-frequency sections at high rates sit near 0.999). */
 export const MARGINAL_POLE_RADIUS = 0.99999;
+/** Boost below this is rounding, not headroom loss (a Linkwitz-Riley high-pass peaks at +1e-10 dB). */
+export const HEADROOM_WARN_DB = 0.01;
 
 export interface OutputAnalysis {
   id: string;
@@ -94,7 +96,7 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
         message: `output ${o.id} has a pole at radius ${a.largestPoleRadius.toFixed(7)}: fixed-point coefficients may make it unstable`,
       });
     }
-    if (a.headroom.peakDb > 0) {
+    if (a.headroom.peakDb > HEADROOM_WARN_DB) {
       warnings.push({
         severity: a.headroom.peakDb > 6 ? 'danger' : 'warning',
         code: 'headroom',
