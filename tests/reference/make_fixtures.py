@@ -427,6 +427,33 @@ def plan_cases():
     return cases
 
 
+# ---- analog prototypes ------------------------------------------------------------------
+
+def upper_sorted(poles):
+    ups = [p for p in poles if mpmath.im(p) > mpmath.mpf(10) ** -40 or abs(mpmath.im(p)) <= mpmath.mpf(10) ** -40]
+    q = lambda p: abs(p) / (-2 * mpmath.re(p))
+    return sorted(ups, key=q)
+
+
+def prototype_cases():
+    """Upper-half-plane poles, sorted by Q, at 50 digits; and scipy.signal.besselap's for comparison."""
+    cases = []
+    for n in range(1, 9):
+        ps = upper_sorted(butter_poles(n))
+        cases.append({'family': 'butterworth', 'order': n, 'poles': [[fl(mpmath.re(p)), fl(mpmath.chop(mpmath.im(p), tol=mpmath.mpf(10) ** -40))] for p in ps],
+                      'q': [fl(abs(p) / (-2 * mpmath.re(p))) for p in ps]})
+        for norm, name in (('phase', 'phase'), ('delay', 'delay'), ('mag', 'magnitude')):
+            ps = upper_sorted(bessel_poles(n, norm))
+            _, p_sc, _ = sig.besselap(n, norm=norm)
+            sc = sorted([complex(x) for x in p_sc if x.imag >= 0], key=lambda p: abs(p) / (-2 * p.real))
+            cases.append({'family': 'bessel', 'order': n, 'normalization': name,
+                          'poles': [[fl(mpmath.re(p)), fl(mpmath.chop(mpmath.im(p), tol=mpmath.mpf(10) ** -40))] for p in ps],
+                          'q': [fl(abs(p) / (-2 * mpmath.re(p))) for p in ps],
+                          'scipyCall': f"scipy.signal.besselap({n}, norm='{norm}')",
+                          'scipyPoles': [[fl(p.real), fl(p.imag)] for p in sc]})
+    return cases
+
+
 def main():
     meta = dict(VERSIONS)
     meta['generator'] = 'tests/reference/make_fixtures.py'
@@ -436,6 +463,7 @@ def main():
     write('linkwitz-riley.json', dict(meta, note='butter(order/2) squared'), lr_cases())
     write('cookbook.json', dict(meta, note='Audio EQ Cookbook formulas written in Python (this script); exact = 50-digit evaluation of the section'), cookbook_cases())
     write('first-order.json', dict(meta, note='scipy.signal.bilinear of the pre-warped analog first-order sections'), first_order_cases())
+    write('prototypes.json', dict(meta, note='analog prototype poles (upper half plane, by increasing Q) at 50 digits; Bessel roots of the reverse Bessel polynomial'), prototype_cases())
     write('plans.json', dict(meta, note='whole plans: outputs with gain, polarity, delay, and the complex sum with its group delay'), plan_cases())
 
 
