@@ -10,6 +10,7 @@ import type { Plan } from '../plan/types';
 import { designedResponse, logFrequencies, MAGNITUDE_FLOOR_DB, type Response } from '../response/chain-response';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
 import { coeffsCsvText, coeffsCText, coeffsJsonText, coeffsListing, coeffsText, num } from './coeffs';
+import { cmdExport, cmdImport, cmdProfiles, quantizedResponseText } from './export';
 
 export interface CliIo {
   /** Reads a text file; throws an Error with a readable message when it cannot. */
@@ -28,11 +29,20 @@ commands:
   coeffs PLAN [--format json|csv|text|c] [--output ID]
       the sections of every output (or one) in the file convention
       H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)
-  response PLAN [--freqs F1,F2,...] [--points N --from F --to F] [--format json|csv]
+  response PLAN [--freqs F1,F2,...] [--points N --from F --to F] [--format json|csv] [--quantize Qm.n]
       magnitude (dB), phase (degrees) and group delay (ms) of each unmuted output and of their sum
-      (default: 512 log-spaced points from 20 Hz to 20 kHz, clipped below Nyquist)
+      (default: 512 log-spaced points from 20 Hz to 20 kHz, clipped below Nyquist);
+      --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers
   check PLAN [--format text|json]
       validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass)
+  export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID]
+      the coefficient list a DSP board wants, per its board profile (default: the plan's own,
+      else "float"); refused when an output needs more sections than the board runs.
+      Saturated coefficients and sections unstable after quantization are flagged on stderr.
+  profiles [--format text|json]
+      the built-in board profiles
+  import FILE --profile NAME|FILE [--format auto|text|csv|json|c] [--name NAME] [--sample-rate HZ]
+      a coefficient list (any export format) as a plan of raw bands, written to stdout
 
 exit codes: 0 success, 1 invalid plan or input file, 2 usage error`;
 
@@ -43,6 +53,9 @@ export const COMMANDS: Record<string, (argv: string[], io: CliIo) => CliResult> 
   coeffs: cmdCoeffs,
   response: cmdResponse,
   check: cmdCheck,
+  export: cmdExport,
+  profiles: (argv) => cmdProfiles(argv),
+  import: cmdImport,
 };
 
 export function runCli(argv: readonly string[], io: CliIo): CliResult {
@@ -165,9 +178,11 @@ export function responseCsv(freqs: Float64Array, named: { id: string; cols: Resp
 }
 
 function cmdResponse(argv: string[], io: CliIo): CliResult {
-  const args = parseArgs(argv, ['freqs', 'points', 'from', 'to', 'format']);
+  const args = parseArgs(argv, ['freqs', 'points', 'from', 'to', 'format', 'quantize']);
   const format = optChoice(args, 'format', ['json', 'csv'] as const, 'json');
   const { plan } = loadPlan(args, io);
+  const quantize = optString(args, 'quantize');
+  if (quantize !== undefined) return quantizedResponseText(plan, args, quantize, format);
   const freqs = responseFrequencies(args, plan.sampleRate);
   const r = designedResponse(designPlan(plan), freqs, plan.sampleRate);
   const outputs = r.outputs.filter((o) => !o.mute).map((o) => ({ id: o.id, cols: responseColumns(o.response) }));

@@ -1,14 +1,18 @@
 /**
  * Migration of older plan versions to the current one, one step per version, so a reader only
- * ever validates the current shape. Version 1 is the first: there is nothing to migrate yet; the
- * step table is where version 2 will put its `1 -> 2` function. A step must keep every field.
+ * ever validates the current shape. A step must keep every field.
+ *
+ * 1 -> 2: version 2 adds the optional board profile (`profile`). A version 1 plan has none, so
+ * every field is kept as it is and no profile is added (the export falls back to the default).
  */
 import { PLAN_VERSION } from './types';
 
 type Step = (plan: Record<string, unknown>) => Record<string, unknown>;
 
 /** steps[v] turns a version v plan into version v + 1. */
-const steps: Record<number, Step> = {};
+const steps: Record<number, Step> = {
+  1: (plan) => ({ ...plan }),
+};
 
 export function migrate(plan: Record<string, unknown>, fromVersion: number): Record<string, unknown> {
   let current = plan;

@@ -15,8 +15,12 @@ import {
   LIMITS,
   PLAN_FORMAT,
   PLAN_VERSION,
+  COEFFICIENT_NAMES,
   type Band,
   type BandType,
+  type BoardProfile,
+  type CoefficientName,
+  type NumberFormat,
   type BesselNormalization,
   type Crossover,
   type CrossoverFamily,
@@ -71,12 +75,15 @@ export function readPlan(value: unknown): Plan {
   if (version < 1 || version > PLAN_VERSION) {
     throw new PlanError('version', `${version} is not supported: this build reads plan versions 1 to ${PLAN_VERSION}; a newer Biquadrant may open it`);
   }
+  if (version < 2 && root.profile !== undefined) {
+    throw new PlanError('profile', 'is not a field of plan version 1 (board profiles came with version 2)');
+  }
   const current = object(migrate(root, version), '');
   return readCurrent(current);
 }
 
 function readCurrent(o: Record<string, unknown>): Plan {
-  allowKeys(o, '', ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs']);
+  allowKeys(o, '', ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs', 'profile']);
   const sampleRate = num(o.sampleRate, 'sampleRate');
   if (sampleRate < LIMITS.sampleRateMinHz || sampleRate > LIMITS.sampleRateMaxHz) {
     throw new PlanError('sampleRate', `must be between ${LIMITS.sampleRateMinHz} and ${LIMITS.sampleRateMaxHz} Hz`);
@@ -105,7 +112,105 @@ function readCurrent(o: Record<string, unknown>): Plan {
     ids.add(out.id);
     plan.outputs.push(out);
   });
+  if (o.profile !== undefined && o.profile !== null) plan.profile = readBoardProfile(o.profile, 'profile');
   return plan;
+}
+
+// ---- board profile (version 2) ----------------------------------------------------------------
+
+const PROFILE_KEYS = [
+  'name',
+  'sampleRate',
+  'order',
+  'feedbackSign',
+  'writeA0',
+  'number',
+  'coefficientScale',
+  'gain',
+  'delayUnit',
+  'maxDelaySamples',
+  'sectionBudget',
+];
+
+/**
+ * Reads a board profile at `path` (`profile` in a plan); throws `PlanError` with the field path.
+ * Every field is required except `sampleRate` (default null: the plan's rate), `writeA0` (false),
+ * `coefficientScale` (1), `gain` ("separate"), `delayUnit` ("samples") and `maxDelaySamples` (null).
+ */
+export function readBoardProfile(v: unknown, path: string): BoardProfile {
+  const o = object(v, path);
+  allowKeys(o, path, PROFILE_KEYS);
+  const name = str(o.name, `${path}.name`, LIMITS.nameMaxLength);
+  let sampleRate: number | null = null;
+  if (o.sampleRate !== undefined && o.sampleRate !== null) {
+    sampleRate = num(o.sampleRate, `${path}.sampleRate`);
+    if (sampleRate < LIMITS.sampleRateMinHz || sampleRate > LIMITS.sampleRateMaxHz) {
+      throw new PlanError(`${path}.sampleRate`, `must be between ${LIMITS.sampleRateMinHz} and ${LIMITS.sampleRateMaxHz} Hz, or null for the plan's rate`);
+    }
+  }
+  const writeA0 = o.writeA0 === undefined ? false : bool(o.writeA0, `${path}.writeA0`);
+  const order = readOrder(o.order, `${path}.order`, writeA0);
+  const feedbackSign = oneOf(o.feedbackSign, `${path}.feedbackSign`, ['as-computed', 'negated']) as BoardProfile['feedbackSign'];
+  const number = readNumberFormat(o.number, `${path}.number`);
+  const coefficientScale = o.coefficientScale === undefined ? 1 : num(o.coefficientScale, `${path}.coefficientScale`);
+  const log2 = Math.log2(Math.abs(coefficientScale));
+  if (!(coefficientScale > 0) || !Number.isInteger(log2) || Math.abs(log2) > LIMITS.coefficientScaleLog2Max) {
+    throw new PlanError(
+      `${path}.coefficientScale`,
+      `must be a power of two from 2^-${LIMITS.coefficientScaleLog2Max} to 2^${LIMITS.coefficientScaleLog2Max} (0.5 halves every coefficient), not ${coefficientScale}`,
+    );
+  }
+  const gain = o.gain === undefined ? 'separate' : (oneOf(o.gain, `${path}.gain`, ['separate', 'first-section']) as BoardProfile['gain']);
+  const delayUnit = o.delayUnit === undefined ? 'samples' : (oneOf(o.delayUnit, `${path}.delayUnit`, ['samples', 'ms']) as BoardProfile['delayUnit']);
+  let maxDelaySamples: number | null = null;
+  if (o.maxDelaySamples !== undefined && o.maxDelaySamples !== null) {
+    maxDelaySamples = wholeNumber(o.maxDelaySamples, `${path}.maxDelaySamples`, 0, LIMITS.maxDelaySamplesMax);
+  }
+  const sectionBudget = wholeNumber(o.sectionBudget, `${path}.sectionBudget`, 1, LIMITS.sectionBudgetMax);
+  return { name, sampleRate, order, feedbackSign, writeA0, number, coefficientScale, gain, delayUnit, maxDelaySamples, sectionBudget };
+}
+
+function readOrder(v: unknown, path: string, writeA0: boolean): CoefficientName[] {
+  const list = array(v, path);
+  const names = list.map((x, i) => oneOf(x, `${path}[${i}]`, COEFFICIENT_NAMES) as CoefficientName);
+  const seen = new Set<string>();
+  names.forEach((n, i) => {
+    if (seen.has(n)) throw new PlanError(`${path}[${i}]`, `"${n}" appears twice`);
+    seen.add(n);
+  });
+  for (const need of ['b0', 'b1', 'b2', 'a1', 'a2']) {
+    if (!seen.has(need)) throw new PlanError(path, `must name each of b0, b1, b2, a1, a2 once (missing ${need})`);
+  }
+  if (seen.has('a0') && !writeA0) throw new PlanError(path, 'places a0, but writeA0 is false');
+  return names;
+}
+
+function readNumberFormat(v: unknown, path: string): NumberFormat {
+  const o = object(v, path);
+  const kind = oneOf(o.kind, `${path}.kind`, ['decimal', 'fixed']);
+  if (kind === 'decimal') {
+    allowKeys(o, path, ['kind', 'significantDigits']);
+    let digits: number | null = null;
+    if (o.significantDigits !== undefined && o.significantDigits !== null) {
+      digits = wholeNumber(o.significantDigits, `${path}.significantDigits`, 1, LIMITS.significantDigitsMax);
+    }
+    return { kind: 'decimal', significantDigits: digits };
+  }
+  allowKeys(o, path, ['kind', 'integerBits', 'fractionBits', 'wordBits', 'notation']);
+  const wordBits = wholeNumber(o.wordBits, `${path}.wordBits`, LIMITS.wordBitsMin, LIMITS.wordBitsMax);
+  const integerBits = wholeNumber(o.integerBits, `${path}.integerBits`, 1, wordBits);
+  const fractionBits = wholeNumber(o.fractionBits, `${path}.fractionBits`, 0, wordBits - 1);
+  if (integerBits + fractionBits > wordBits) {
+    throw new PlanError(path, `Q${integerBits}.${fractionBits} needs ${integerBits + fractionBits} bits, more than the ${wordBits}-bit word`);
+  }
+  const notation = o.notation === undefined ? 'decimal' : (oneOf(o.notation, `${path}.notation`, ['decimal', 'hex']) as 'decimal' | 'hex');
+  return { kind: 'fixed', integerBits, fractionBits, wordBits, notation };
+}
+
+function wholeNumber(v: unknown, path: string, min: number, max: number): number {
+  const x = num(v, path);
+  if (!Number.isInteger(x) || x < min || x > max) throw new PlanError(path, `must be a whole number from ${min} to ${max}`);
+  return x;
 }
 
 function readOutput(v: unknown, path: string, fs: number): Output {

@@ -1,12 +1,13 @@
 /**
- * The plan model: the in-memory shape is the file shape of `*.bqplan` version 1
- * (see DEVELOPERS.md, "Plan file"), with every default filled in by the reader.
+ * The plan model: the in-memory shape is the file shape of `*.bqplan` version 2
+ * (docs/plan-format.md), with every default filled in by the reader. Version 2 adds the optional
+ * board profile; version 1 files are migrated on reading (migrate.ts).
  * Units are in the names' documentation: Hz, dB (20 log10), ms.
  */
 
 export const PLAN_FORMAT = 'biquadrant.plan';
 /** The newest plan version this build writes. */
-export const PLAN_VERSION = 1;
+export const PLAN_VERSION = 2;
 
 export type BandType =
   | 'peaking'
@@ -110,6 +111,50 @@ export interface Plan {
   input: { bands: Band[] };
   /** 1 .. 16 outputs. */
   outputs: Output[];
+  /** Version 2: how the plan's DSP board wants its coefficients; absent when none is chosen. */
+  profile?: BoardProfile;
+}
+
+/** A coefficient's name in a board's list. `a0` is written only when the profile says so. */
+export type CoefficientName = 'b0' | 'b1' | 'b2' | 'a0' | 'a1' | 'a2';
+export const COEFFICIENT_NAMES: readonly CoefficientName[] = ['b0', 'b1', 'b2', 'a0', 'a1', 'a2'];
+
+/**
+ * How a board wants numbers written.
+ * - `decimal`: `significantDigits` 1..17, or null for the shortest decimal that reads back to the
+ *   same double (exact round trip).
+ * - `fixed`: Qm.n, m = `integerBits` (sign included, >= 1), n = `fractionBits`, m + n <= `wordBits`
+ *   (16..32); integers written as signed decimal or as two's-complement hex of the word width.
+ */
+export type NumberFormat =
+  | { kind: 'decimal'; significantDigits: number | null }
+  | { kind: 'fixed'; integerBits: number; fractionBits: number; wordBits: number; notation: 'decimal' | 'hex' };
+
+/**
+ * A board profile: how one DSP board wants its coefficient list. Exports follow it; the plan's
+ * own convention (a section is (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)) is the default.
+ */
+export interface BoardProfile {
+  name: string;
+  /** Hz; null: the plan's rate. A different rate redesigns the plan at this rate on export. */
+  sampleRate: number | null;
+  /** The order of a section's numbers: a permutation of b0 b1 b2 a1 a2 (and a0 when `writeA0`). */
+  order: CoefficientName[];
+  /** "as-computed": a1, a2 as in the file convention; "negated": -a1, -a2 (boards that add the feedback terms). */
+  feedbackSign: 'as-computed' | 'negated';
+  /** Write a0 (always 1 before pre-scaling); inserted before a1 when `order` does not place it. */
+  writeA0: boolean;
+  number: NumberFormat;
+  /** Every written coefficient is multiplied by this power of two (0.5: halved, for boards that shift left by one). */
+  coefficientScale: number;
+  /** "separate": the output gain is its own number; "first-section": folded into the first section's b0 b1 b2. */
+  gain: 'separate' | 'first-section';
+  /** How the output delay is written: whole samples (rounded to nearest) or ms. */
+  delayUnit: 'samples' | 'ms';
+  /** The longest delay the board runs, in samples; null: no limit. */
+  maxDelaySamples: number | null;
+  /** The most sections the board runs per output (input chain sections included). */
+  sectionBudget: number;
 }
 
 /** Limits of the plan contract, shared by the validator and the UI's parameter metadata. */
@@ -129,4 +174,11 @@ export const LIMITS = {
   idPattern: /^[a-z0-9_-]{1,32}$/,
   bandIdMaxLength: 32,
   nameMaxLength: 200,
+  /** Board profiles (version 2). */
+  wordBitsMin: 16,
+  wordBitsMax: 32,
+  significantDigitsMax: 17,
+  coefficientScaleLog2Max: 8,
+  sectionBudgetMax: 1024,
+  maxDelaySamplesMax: 16777216,
 } as const;

@@ -2,7 +2,7 @@
  * Writing a plan: UTF-8 JSON, 2-space indent, one stable key order (the order of the contract),
  * so plans diff well under version control. Optional band fields are written when set.
  */
-import type { Band, Crossover, Output, Plan } from './types';
+import type { Band, BoardProfile, Crossover, Output, Plan } from './types';
 
 function edge(e: Crossover | null): Record<string, unknown> | null {
   if (!e) return null;
@@ -45,7 +45,31 @@ export function planToJson(plan: Plan): Record<string, unknown> {
   o.sampleRate = plan.sampleRate;
   o.input = { bands: plan.input.bands.map(band) };
   o.outputs = plan.outputs.map(output);
+  // Version 2: written last, so a migrated version 1 file diffs only by its version and this block.
+  if (plan.profile) o.profile = profileToJson(plan.profile);
   return o;
+}
+
+/** A board profile as a plain object in the contract's key order (every field written). */
+export function profileToJson(p: BoardProfile): Record<string, unknown> {
+  const n = p.number;
+  const number =
+    n.kind === 'decimal'
+      ? { kind: n.kind, significantDigits: n.significantDigits }
+      : { kind: n.kind, integerBits: n.integerBits, fractionBits: n.fractionBits, wordBits: n.wordBits, notation: n.notation };
+  return {
+    name: p.name,
+    sampleRate: p.sampleRate,
+    order: [...p.order],
+    feedbackSign: p.feedbackSign,
+    writeA0: p.writeA0,
+    number,
+    coefficientScale: p.coefficientScale,
+    gain: p.gain,
+    delayUnit: p.delayUnit,
+    maxDelaySamples: p.maxDelaySamples,
+    sectionBudget: p.sectionBudget,
+  };
 }
 
 /** The file text, ending with a newline. */

@@ -1,0 +1,129 @@
+/**
+ * Command-line commands for board exports: `export`, `profiles`, `import`, and the quantized
+ * branch of `response --quantize Qm.n`. Registered in run.ts's COMMANDS.
+ */
+import { designPlan } from '../design/chain';
+import { exportSection, buildExportList, type ExportList } from '../export/list';
+import { EXPORT_FORMATS, formatExport, type ExportFormat } from '../export/format';
+import { importedPlan, parseCoefficientList, type ImportFormat } from '../export/import';
+import { BUILT_IN_PROFILES, DEFAULT_PROFILE, describeProfile, findBuiltInProfile, readProfileValue, copyProfile } from '../export/profiles';
+import { quantizeProfile } from '../export/quantized';
+import type { BoardProfile, Plan } from '../plan/types';
+import { profileToJson, writePlanText } from '../plan/write';
+import { designedResponse } from '../response/chain-response';
+import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
+import { checkOutputId, InputError, loadPlan, responseColumns, responseCsv, responseFrequencies, type CliIo, type CliResult } from './run';
+
+/** --profile: a built-in by key or name, else a JSON file (a profile, or a plan holding one). */
+export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): BoardProfile {
+  const name = optString(args, 'profile');
+  if (name === undefined) return plan?.profile ? copyProfile(plan.profile) : copyProfile(DEFAULT_PROFILE);
+  const builtIn = findBuiltInProfile(name);
+  if (builtIn) return builtIn;
+  let text: string;
+  try {
+    text = io.readText(name);
+  } catch (e) {
+    throw new InputError(
+      `--profile ${name}: neither a built-in profile (${BUILT_IN_PROFILES.map((b) => b.key).join(', ')}) nor a readable file (${(e as Error).message})`,
+    );
+  }
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch (e) {
+    throw new InputError(`${name}: not valid JSON (${(e as Error).message})`);
+  }
+  const r = readProfileValue(value);
+  if (!r.ok) throw new InputError(`${name}: ${r.error.path ? r.error.message : `profile: ${r.error.reason}`}`);
+  return r.profile;
+}
+
+/** Warnings printed before an export: saturation, instability, notes of the list. */
+export function exportWarnings(list: ExportList): string[] {
+  return list.notes.map((n) => `warning: ${n}`);
+}
+
+export function cmdExport(argv: string[], io: CliIo): CliResult {
+  const args = parseArgs(argv, ['profile', 'format', 'output']);
+  const format = optChoice(args, 'format', EXPORT_FORMATS, 'text') as ExportFormat;
+  const outputId = optString(args, 'output');
+  const { plan, path } = loadPlan(args, io);
+  checkOutputId(plan, outputId);
+  const profile = resolveProfile(args, io, plan);
+  const r = buildExportList(plan, profile, outputId);
+  if (!r.ok) {
+    return { code: 1, stdout: '', stderr: r.problems.map((p) => `error: ${path}: ${p.message}\n`).join('') };
+  }
+  const warnings = exportWarnings(r.list);
+  return { code: 0, stdout: formatExport(r.list, format), stderr: warnings.map((w) => w + '\n').join('') };
+}
+
+export function cmdProfiles(argv: string[]): CliResult {
+  const args = parseArgs(argv, ['format']);
+  const format = optChoice(args, 'format', ['text', 'json'] as const, 'text');
+  if (args.positionals.length > 0) throw new UsageError('profiles takes no file');
+  if (format === 'json') {
+    const json = BUILT_IN_PROFILES.map((b) => ({ key: b.key, profile: profileToJson(b.profile) }));
+    return { code: 0, stdout: JSON.stringify(json, null, 2) + '\n', stderr: '' };
+  }
+  const lines = BUILT_IN_PROFILES.map((b) => `${b.key.padEnd(14)} ${b.profile.name}\n${' '.repeat(15)}${describeProfile(b.profile, 48000).replace('48000 Hz', "plan's rate")}`);
+  return { code: 0, stdout: lines.join('\n') + '\n', stderr: '' };
+}
+
+export function cmdImport(argv: string[], io: CliIo): CliResult {
+  const args = parseArgs(argv, ['profile', 'format', 'name', 'sample-rate']);
+  const format = optChoice(args, 'format', ['auto', 'text', 'csv', 'json', 'c'] as const, 'auto') as ImportFormat;
+  if (args.positionals.length !== 1) throw new UsageError('import needs one coefficient FILE');
+  const path = args.positionals[0];
+  const profile = resolveProfile(args, io, null);
+  const rate = optNumber(args, 'sample-rate');
+  let text: string;
+  try {
+    text = io.readText(path);
+  } catch (e) {
+    throw new InputError(`${path}: cannot read (${(e as Error).message})`);
+  }
+  const r = parseCoefficientList(text, profile, format);
+  if (!r.ok) throw new InputError(`${path}: ${r.error.message}`);
+  try {
+    const plan = importedPlan(r.list, optString(args, 'name') ?? `Imported from ${path}`, rate ?? r.list.sampleRate ?? 48000);
+    return { code: 0, stdout: writePlanText(plan), stderr: '' };
+  } catch (e) {
+    throw new InputError(`${path}: ${(e as Error).message}`);
+  }
+}
+
+/**
+ * `response --quantize Qm.n`: every section quantized to Qm.n (file convention, round to nearest
+ * with ties away from zero, saturating), the gain and delay kept exact, so the only difference
+ * from `response` is the coefficients' quantization.
+ */
+export function quantizedResponseText(plan: Plan, args: ParsedArgs, q: string, format: 'json' | 'csv'): CliResult {
+  const profile = quantizeProfile(q);
+  if (!profile) throw new UsageError(`--quantize must be Qm.n with m >= 1 and m + n <= 32 (e.g. Q5.23), not "${q}"`);
+  const freqs = responseFrequencies(args, plan.sampleRate);
+  const warnings: string[] = [];
+  const designed = designPlan(plan).map((d) => ({
+    ...d,
+    sections: d.sections.map((s, k) => {
+      const e = exportSection(s, k + 1, profile);
+      if (e.saturated.length > 0) warnings.push(`warning: ${d.id} section ${k + 1} (${s.from}): ${e.saturated.join(', ')} saturated in ${q}`);
+      if (!e.stable) warnings.push(`warning: ${d.id} section ${k + 1} (${s.from}): UNSTABLE in ${q} (pole radius ${e.poleRadius})`);
+      return { ...e.quantized, from: s.from };
+    }),
+  }));
+  const r = designedResponse(designed, freqs, plan.sampleRate);
+  const outputs = r.outputs.filter((o) => !o.mute).map((o) => ({ id: o.id, cols: responseColumns(o.response) }));
+  const sum = responseColumns(r.sum);
+  const stderr = warnings.map((w) => w + '\n').join('');
+  if (format === 'csv') return { code: 0, stdout: responseCsv(freqs, [...outputs, { id: 'sum', cols: sum }]), stderr };
+  const json = {
+    sampleRate: plan.sampleRate,
+    quantize: `Q${profile.number.kind === 'fixed' ? `${profile.number.integerBits}.${profile.number.fractionBits}` : ''}`,
+    frequencies: Array.from(freqs),
+    outputs: outputs.map((o) => ({ id: o.id, ...o.cols })),
+    sum,
+  };
+  return { code: 0, stdout: JSON.stringify(json) + '\n', stderr };
+}

@@ -1,0 +1,180 @@
+/**
+ * The export formats, all written from one `ExportList`: text (a line per section), CSV, JSON and
+ * a C header. Numbers are the list's written texts (shortest exact decimals, decimals rounded to
+ * the profile's digits, signed integers or two's-complement hex), so every format carries the
+ * same values; `import.ts` reads each of them back.
+ */
+import type { ExportList, ExportOutput, WrittenNumber } from './list';
+import { profileToJson } from '../plan/write';
+import { describeProfile, effectiveOrder } from './profiles';
+import { qName } from './fixed';
+
+export type ExportFormat = 'text' | 'csv' | 'json' | 'c';
+export const EXPORT_FORMATS: readonly ExportFormat[] = ['text', 'csv', 'json', 'c'];
+
+/** The file name extension of each format. */
+export const FORMAT_EXTENSIONS: Record<ExportFormat, string> = { text: 'txt', csv: 'csv', json: 'json', c: 'h' };
+
+/** The JSON export's `format` field. */
+export const COEFFICIENTS_FORMAT = 'biquadrant.coefficients';
+
+export function formatExport(list: ExportList, format: ExportFormat): string {
+  switch (format) {
+    case 'text':
+      return exportText(list);
+    case 'csv':
+      return exportCsv(list);
+    case 'json':
+      return exportJson(list);
+    case 'c':
+      return exportC(list);
+  }
+}
+
+/** The comment lines every format with comments starts with (without comment markers). */
+export function conventionLines(list: ExportList): string[] {
+  const p = list.profile;
+  const order = effectiveOrder(p);
+  const lines = [
+    `Biquadrant export: ${list.planName}`,
+    `Board profile: ${p.name}`,
+    `Sample rate: ${list.sampleRate} Hz${list.redesigned ? ` (redesigned; the plan is at ${list.planSampleRate} Hz)` : ''}`,
+    `Profile: ${describeProfile(p, list.planSampleRate)}`,
+    'Section: H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order (input chain first)',
+    p.feedbackSign === 'negated'
+      ? 'Board equation: y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] + A1 y[n-1] + A2 y[n-2], with A1 = -a1, A2 = -a2 written'
+      : 'Board equation: y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] - a1 y[n-1] - a2 y[n-2]',
+    `Numbers per section: ${order.map((n) => (p.feedbackSign === 'negated' && (n === 'a1' || n === 'a2') ? `-${n}` : n)).join(' ')}${p.writeA0 ? ' (a0 = 1 before scaling)' : ''}`,
+  ];
+  if (p.coefficientScale !== 1) lines.push(`Every coefficient is multiplied by ${p.coefficientScale} before it is written (the board undoes it)`);
+  if (p.number.kind === 'fixed') {
+    const q = qName(p.number);
+    lines.push(
+      `Fixed point ${q} in ${p.number.wordBits}-bit words: integer = round(value x 2^${p.number.fractionBits}), ties away from zero, saturated at the ${q} range${p.number.notation === 'hex' ? "; written as two's-complement hex of the word" : ''}`,
+    );
+  }
+  lines.push(
+    p.gain === 'separate'
+      ? `Gain: linear, polarity included, in the same number format${p.coefficientScale !== 1 ? ' (not pre-scaled)' : ''}`
+      : 'Gain: folded into the first section (b0 b1 b2 multiplied by it)',
+  );
+  lines.push(`Delay: ${p.delayUnit === 'samples' ? 'whole samples (rounded to nearest)' : 'ms'}`);
+  return lines;
+}
+
+function sectionNumbers(s: { written: { number: WrittenNumber }[] }): string[] {
+  return s.written.map((w) => w.number.text);
+}
+
+export function exportText(list: ExportList): string {
+  const lines = conventionLines(list).map((l) => `# ${l}`);
+  lines.push(`# One line per section: ${effectiveOrder(list.profile).join(' ')}`);
+  for (const o of list.outputs) {
+    lines.push('', `output ${o.id}`);
+    if (o.gain.written) lines.push(`gain ${o.gain.written.text}`);
+    lines.push(`delay ${o.delay.text} ${list.profile.delayUnit}`);
+    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}`);
+  }
+  return lines.join('\n') + '\n';
+}
+
+function csvCell(s: string): string {
+  return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+export function exportCsv(list: ExportList): string {
+  const order = effectiveOrder(list.profile);
+  const separate = list.profile.gain === 'separate';
+  const delayColumn = list.profile.delayUnit === 'samples' ? 'delaySamples' : 'delayMs';
+  const header = ['output', 'section', 'from', ...order, ...(separate ? ['gain'] : []), delayColumn];
+  const rows = [header.join(',')];
+  const tail = (o: ExportOutput) => [...(separate ? [o.gain.written?.text ?? ''] : []), o.delay.text];
+  for (const o of list.outputs) {
+    for (const s of o.sections) rows.push([csvCell(o.id), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o)].join(','));
+    if (o.sections.length === 0) rows.push([csvCell(o.id), '0', '', ...order.map(() => ''), ...tail(o)].join(','));
+  }
+  return rows.join('\n') + '\n';
+}
+
+/** JSON value of a written number: hex stays a string, everything else is a JSON number. */
+function jsonNumber(w: WrittenNumber, hex: boolean): number | string {
+  return hex ? w.text : w.value;
+}
+
+export function exportJson(list: ExportList): string {
+  const hex = list.profile.number.kind === 'fixed' && list.profile.number.notation === 'hex';
+  const doc = {
+    format: COEFFICIENTS_FORMAT,
+    plan: list.planName,
+    sampleRate: list.sampleRate,
+    profile: profileToJson(list.profile),
+    convention: conventionLines(list).slice(4),
+    order: effectiveOrder(list.profile),
+    outputs: list.outputs.map((o) => ({
+      id: o.id,
+      gain: o.gain.written ? jsonNumber(o.gain.written, hex) : null,
+      delay: list.profile.delayUnit === 'samples' ? o.delay.samples : o.delay.ms,
+      sections: o.sections.map((s) => ({ from: s.from, coefficients: s.written.map((w) => jsonNumber(w.number, hex)) })),
+    })),
+  };
+  return JSON.stringify(doc, null, 2) + '\n';
+}
+
+/** A C identifier from an output id. */
+export function cIdentifier(id: string): string {
+  const s = id.replace(/[^A-Za-z0-9_]/g, '_');
+  return /^[0-9]/.test(s) ? `_${s}` : s;
+}
+
+function cComment(s: string): string {
+  return s.replace(/\*\//g, '* /');
+}
+
+/** A C literal for a written number, in the type the header declares. */
+function cLiteral(w: WrittenNumber, list: ExportList): string {
+  const n = list.profile.number;
+  if (n.kind === 'decimal') return /[.eE]/.test(w.text) ? w.text : `${w.text}.0`;
+  if (n.notation === 'hex') return w.text;
+  const bits = n.wordBits > 16 ? 32 : 16;
+  // The most negative value has no literal of its own in C (the literal is the positive part).
+  if (w.value === -(2 ** (bits - 1))) return `(${-(2 ** (bits - 1)) + 1} - 1)`;
+  return w.text;
+}
+
+function cType(list: ExportList): string {
+  const n = list.profile.number;
+  if (n.kind === 'decimal') return 'double';
+  const bits = n.wordBits > 16 ? 32 : 16;
+  return n.notation === 'hex' ? `uint${bits}_t` : `int${bits}_t`;
+}
+
+export function exportC(list: ExportList): string {
+  const order = effectiveOrder(list.profile);
+  const type = cType(list);
+  const lines = ['/*', ...conventionLines(list).map((l) => ` * ${cComment(l)}`), ` * Each row is {${order.join(', ')}}.`];
+  if (list.profile.number.kind === 'fixed' && list.profile.number.notation === 'hex') {
+    lines.push(` * Hex words are stored in ${type}: the low ${list.profile.number.wordBits} bits are the two's complement.`);
+  }
+  lines.push(' */', '#ifndef BIQUADRANT_COEFFS_H', '#define BIQUADRANT_COEFFS_H', '');
+  if (type !== 'double') lines.push('#include <stdint.h>', '');
+  lines.push(`#define BQ_SAMPLE_RATE ${list.sampleRate}`);
+  for (const o of list.outputs) {
+    const upper = cIdentifier(o.id).toUpperCase();
+    const lower = cIdentifier(o.id).toLowerCase();
+    lines.push('', `/* output ${o.id} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
+    lines.push(list.profile.delayUnit === 'samples' ? `#define BQ_${upper}_DELAY_SAMPLES ${o.delay.text}` : `#define BQ_${upper}_DELAY_MS ${o.delay.text}`);
+    if (o.gain.written) lines.push(`static const ${type} bq_${lower}_gain = ${cLiteral(o.gain.written, list)};`);
+    if (o.sections.length === 0) {
+      lines.push(`/* no sections: bq_${lower}_sos is omitted (C has no empty arrays) */`);
+      continue;
+    }
+    lines.push(`static const ${type} bq_${lower}_sos[${o.sections.length}][${order.length}] = {`);
+    o.sections.forEach((s, i) => {
+      const sep = i === o.sections.length - 1 ? '' : ',';
+      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${s.index} ${cComment(s.from)} */`);
+    });
+    lines.push('};');
+  }
+  lines.push('', '#endif /* BIQUADRANT_COEFFS_H */');
+  return lines.join('\n') + '\n';
+}

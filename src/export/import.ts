@@ -1,0 +1,366 @@
+/**
+ * Import: a coefficient list in any export format and board profile back to sections, and from
+ * there to raw bands, so a board's existing settings can be examined like any plan.
+ *
+ * Each number is undone as the export did it: hex words as two's complement of the word width,
+ * integers divided by 2^n, then divided by the pre-scaling power of two, and a1, a2 negated back
+ * when the profile negates feedback. Every step is exact, so a decimal export with the shortest
+ * round-trip form (String(x)) reads back to the very same doubles.
+ *
+ * Accepted: the four export formats (the JSON carries its own profile), and plain pasted text:
+ * one section per line, numbers separated by spaces, commas, semicolons or tabs, `#` and `//`
+ * comments, optional `output ID`, `gain X` and `delay X [samples|ms]` lines.
+ */
+import type { Band, BoardProfile, CoefficientName, Plan } from '../plan/types';
+import { LIMITS, PLAN_FORMAT, PLAN_VERSION } from '../plan/types';
+import { readBoardProfile, PlanError } from '../plan/read';
+import { fixedRange, fromHex, qName } from './fixed';
+import { writeFactor } from './list';
+import { effectiveOrder } from './profiles';
+import { COEFFICIENTS_FORMAT } from './format';
+
+export interface ImportedSection {
+  b0: number;
+  b1: number;
+  b2: number;
+  /** 1 unless a decimal list wrote another a0 (fixed-point boards take a0 as exactly 1). */
+  a0: number;
+  a1: number;
+  a2: number;
+  /** Where the export said it came from, when it did. */
+  from?: string;
+}
+
+export interface ImportedOutput {
+  id: string;
+  /** Linear, polarity included; null when the list has none (folded, or not given). */
+  gain: number | null;
+  delay: { value: number; unit: 'samples' | 'ms' } | null;
+  sections: ImportedSection[];
+}
+
+export interface ImportedList {
+  /** The profile the numbers were read with (a JSON export's own profile wins). */
+  profile: BoardProfile;
+  sampleRate: number | null;
+  outputs: ImportedOutput[];
+  notes: string[];
+}
+
+export class ImportError extends Error {
+  constructor(
+    /** "line 12", "outputs[0].sections[3]" or "" */
+    readonly where: string,
+    readonly reason: string,
+  ) {
+    super(where ? `${where}: ${reason}` : reason);
+    this.name = 'ImportError';
+  }
+}
+
+export type ImportResult = { ok: true; list: ImportedList } | { ok: false; error: ImportError };
+
+export type ImportFormat = 'auto' | 'text' | 'csv' | 'json' | 'c';
+
+/** Reads a coefficient list. Never throws. */
+export function parseCoefficientList(text: string, profile: BoardProfile, format: ImportFormat = 'auto'): ImportResult {
+  try {
+    const f = format === 'auto' ? detectFormat(text) : format;
+    const list = f === 'json' ? parseJson(text) : f === 'c' ? parseC(text, profile) : f === 'csv' ? parseCsv(text, profile) : parseText(text, profile);
+    if (list.outputs.length === 0 || list.outputs.every((o) => o.sections.length === 0 && o.gain === null)) {
+      throw new ImportError('', 'no sections found');
+    }
+    return { ok: true, list };
+  } catch (e) {
+    if (e instanceof ImportError) return { ok: false, error: e };
+    if (e instanceof PlanError) return { ok: false, error: new ImportError(e.path, e.reason) };
+    throw e;
+  }
+}
+
+export function detectFormat(text: string): Exclude<ImportFormat, 'auto'> {
+  const t = text.trimStart();
+  if (t.startsWith('{')) return 'json';
+  if (/#ifndef|#define|static\s+const/.test(text)) return 'c';
+  if (/^output,section,/.test(t)) return 'csv';
+  return 'text';
+}
+
+// ---- numbers -----------------------------------------------------------------------------------
+
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i;
+
+/** A written token to the value it stands for (integer / 2^n for fixed point), before undoing scale and sign. */
+export function readToken(token: string, profile: BoardProfile, where: string): number {
+  const t = token.trim();
+  const n = profile.number;
+  if (n.kind === 'decimal') {
+    if (!DECIMAL.test(t)) throw new ImportError(where, `"${t}" is not a decimal number`);
+    return Number(t);
+  }
+  let integer: number | null;
+  // In a hex profile every unsigned word is hex, with or without 0x.
+  if (/^[+-]?0x/i.test(t) || (n.notation === 'hex' && /^[0-9a-f]+$/i.test(t))) {
+    if (t.startsWith('-')) throw new ImportError(where, `"${t}": hex words are two's complement, not signed`);
+    integer = fromHex(t, n.wordBits);
+    if (integer === null) throw new ImportError(where, `"${t}" is not a ${n.wordBits}-bit hex word`);
+  } else if (/^[+-]?\d+$/.test(t)) {
+    integer = Number(t);
+  } else {
+    throw new ImportError(where, `"${t}" is not an integer of ${qName(n)}`);
+  }
+  const { min, max } = fixedRange(n);
+  if (integer < min || integer > max) throw new ImportError(where, `${t} is outside ${qName(n)} (${min} .. ${max})`);
+  return integer * 2 ** -n.fractionBits;
+}
+
+function toSection(values: number[], names: CoefficientName[], profile: BoardProfile, where: string, from?: string): ImportedSection {
+  if (values.length !== names.length) {
+    throw new ImportError(where, `expected ${names.length} numbers (${names.join(' ')}), found ${values.length}`);
+  }
+  const s: ImportedSection = { b0: 0, b1: 0, b2: 0, a0: 1, a1: 0, a2: 0 };
+  names.forEach((name, i) => {
+    s[name] = values[i] / writeFactor(name, profile);
+  });
+  // Fixed-point boards take a0 as exactly 1 (it may even saturate, as 1.0 does in Q1.31).
+  if (profile.number.kind === 'fixed') s.a0 = 1;
+  if (s.a0 === 0) throw new ImportError(where, 'a0 is 0');
+  if (from !== undefined) s.from = from;
+  return s;
+}
+
+function readGain(token: string, profile: BoardProfile, where: string): number {
+  // The gain is written in the number format but never pre-scaled or negated.
+  return readToken(token, profile, where);
+}
+
+// ---- text ----------------------------------------------------------------------------------------
+
+function parseText(text: string, profile: BoardProfile): ImportedList {
+  const names = effectiveOrder(profile);
+  const outputs: ImportedOutput[] = [];
+  let current: ImportedOutput | null = null;
+  const ensure = (): ImportedOutput => {
+    if (!current) {
+      current = { id: `out${outputs.length + 1}`, gain: null, delay: null, sections: [] };
+      outputs.push(current);
+    }
+    return current;
+  };
+  text.split(/\r?\n/).forEach((raw, i) => {
+    const where = `line ${i + 1}`;
+    const hash = raw.indexOf('#');
+    let comment = hash >= 0 ? raw.slice(hash + 1).trim() : '';
+    let line = hash >= 0 ? raw.slice(0, hash) : raw;
+    const slashes = line.indexOf('//');
+    if (slashes >= 0) {
+      comment = line.slice(slashes + 2).trim();
+      line = line.slice(0, slashes);
+    }
+    line = line.trim();
+    if (line === '') return;
+    let m = /^output\s+(\S+)$/i.exec(line);
+    if (m) {
+      current = { id: m[1], gain: null, delay: null, sections: [] };
+      outputs.push(current);
+      return;
+    }
+    m = /^gain\s*[:=]?\s*(\S+)$/i.exec(line);
+    if (m) {
+      ensure().gain = readGain(m[1], profile, where);
+      return;
+    }
+    m = /^delay\s*[:=]?\s*(\S+)(?:\s+(samples|ms))?$/i.exec(line);
+    if (m) {
+      const value = Number(m[1]);
+      if (!Number.isFinite(value) || value < 0) throw new ImportError(where, `delay "${m[1]}" is not a number >= 0`);
+      ensure().delay = { value, unit: (m[2]?.toLowerCase() as 'samples' | 'ms' | undefined) ?? profile.delayUnit };
+      return;
+    }
+    const tokens = line.split(/[\s,;]+/).filter((t) => t !== '');
+    const values = tokens.map((t) => readToken(t, profile, where));
+    // "# 3 input/b1" after a section: the export's index and origin.
+    const from = /^\d+\s+(\S+)$/.exec(comment)?.[1];
+    ensure().sections.push(toSection(values, names, profile, where, from));
+  });
+  return { profile, sampleRate: profile.sampleRate, outputs, notes: [] };
+}
+
+// ---- CSV -----------------------------------------------------------------------------------------
+
+function splitCsvLine(line: string): string[] {
+  const cells: string[] = [];
+  let cell = '';
+  let quoted = false;
+  for (let i = 0; i < line.length; i++) {
+    const c = line[i];
+    if (quoted) {
+      if (c === '"' && line[i + 1] === '"') {
+        cell += '"';
+        i++;
+      } else if (c === '"') quoted = false;
+      else cell += c;
+    } else if (c === '"') quoted = true;
+    else if (c === ',') {
+      cells.push(cell);
+      cell = '';
+    } else cell += c;
+  }
+  cells.push(cell);
+  return cells;
+}
+
+function parseCsv(text: string, profile: BoardProfile): ImportedList {
+  const lines = text.split(/\r?\n/).filter((l) => l.trim() !== '');
+  const header = splitCsvLine(lines[0]).map((h) => h.trim());
+  const col = (name: string) => header.indexOf(name);
+  const names = effectiveOrder(profile);
+  for (const n of names) if (col(n) < 0) throw new ImportError('line 1', `the header has no "${n}" column (the profile's order is ${names.join(' ')})`);
+  const outputs = new Map<string, ImportedOutput>();
+  lines.slice(1).forEach((line, i) => {
+    const where = `line ${i + 2}`;
+    const cells = splitCsvLine(line);
+    const id = cells[col('output')];
+    if (!id) throw new ImportError(where, 'no output id');
+    let out = outputs.get(id);
+    if (!out) {
+      out = { id, gain: null, delay: null, sections: [] };
+      outputs.set(id, out);
+    }
+    if (col('gain') >= 0 && cells[col('gain')]) out.gain = readGain(cells[col('gain')], profile, where);
+    for (const unit of ['samples', 'ms'] as const) {
+      const c = col(unit === 'samples' ? 'delaySamples' : 'delayMs');
+      if (c >= 0 && cells[c]) out.delay = { value: Number(cells[c]), unit };
+    }
+    if (cells[col('section')] === '0') return;
+    const values = names.map((n) => readToken(cells[col(n)] ?? '', profile, `${where}, ${n}`));
+    out.sections.push(toSection(values, names, profile, where, col('from') >= 0 ? cells[col('from')] : undefined));
+  });
+  return { profile, sampleRate: profile.sampleRate, outputs: [...outputs.values()], notes: [] };
+}
+
+// ---- JSON ----------------------------------------------------------------------------------------
+
+function parseJson(text: string): ImportedList {
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text);
+  } catch (e) {
+    throw new ImportError('', `not valid JSON (${(e as Error).message})`);
+  }
+  const d = doc as Record<string, unknown>;
+  if (typeof d !== 'object' || d === null || d.format !== COEFFICIENTS_FORMAT) {
+    throw new ImportError('format', `must be "${COEFFICIENTS_FORMAT}" (a Biquadrant coefficient export)`);
+  }
+  const profile = readBoardProfile(d.profile, 'profile');
+  const names = effectiveOrder(profile);
+  if (!Array.isArray(d.outputs)) throw new ImportError('outputs', 'must be a list');
+  const tokenOf = (v: unknown, where: string): string => {
+    if (typeof v === 'number' && Number.isFinite(v)) return String(v);
+    if (typeof v === 'string') return v;
+    throw new ImportError(where, 'must be a number or a hex string');
+  };
+  const outputs = d.outputs.map((o: Record<string, unknown>, i: number): ImportedOutput => {
+    const path = `outputs[${i}]`;
+    if (typeof o?.id !== 'string') throw new ImportError(`${path}.id`, 'must be a string');
+    if (!Array.isArray(o.sections)) throw new ImportError(`${path}.sections`, 'must be a list');
+    const sections = o.sections.map((s: Record<string, unknown>, k: number) => {
+      const where = `${path}.sections[${k}]`;
+      if (!Array.isArray(s?.coefficients)) throw new ImportError(`${where}.coefficients`, 'must be a list');
+      const values = s.coefficients.map((v: unknown, j: number) => readToken(tokenOf(v, `${where}.coefficients[${j}]`), profile, `${where}.coefficients[${j}]`));
+      return toSection(values, names, profile, where, typeof s.from === 'string' ? s.from : undefined);
+    });
+    const gain = o.gain === null || o.gain === undefined ? null : readGain(tokenOf(o.gain, `${path}.gain`), profile, `${path}.gain`);
+    const delay = typeof o.delay === 'number' ? { value: o.delay, unit: profile.delayUnit } : null;
+    return { id: o.id, gain, delay, sections };
+  });
+  const sampleRate = typeof d.sampleRate === 'number' ? d.sampleRate : profile.sampleRate;
+  return { profile, sampleRate, outputs, notes: [] };
+}
+
+// ---- C header ------------------------------------------------------------------------------------
+
+function cTokens(body: string): string[] {
+  // The most negative integer is written (-2147483647 - 1): fold it back to one token.
+  const folded = body.replace(/\(\s*-(\d+)\s*-\s*1\s*\)/g, (_, d: string) => String(-Number(d) - 1));
+  return folded
+    .split(/[\s,]+/)
+    .map((t) => t.replace(/[uUlL]+$/, ''))
+    .filter((t) => t !== '');
+}
+
+function parseC(text: string, profile: BoardProfile): ImportedList {
+  const names = effectiveOrder(profile);
+  const parts = text.split(/\/\*\s*output\s+(\S+)\s*\*\//);
+  if (parts.length < 3) throw new ImportError('', 'no "/* output ID */" blocks found (is this a Biquadrant C header?)');
+  const outputs: ImportedOutput[] = [];
+  const rate = /#define\s+BQ_SAMPLE_RATE\s+(\d+(?:\.\d+)?)/.exec(parts[0]);
+  for (let i = 1; i < parts.length; i += 2) {
+    const id = parts[i];
+    const chunk = parts[i + 1];
+    const out: ImportedOutput = { id, gain: null, delay: null, sections: [] };
+    const gain = /_gain\s*=\s*([^;]+);/.exec(chunk);
+    if (gain) out.gain = readGain(cTokens(gain[1])[0] ?? '', profile, `output ${id} gain`);
+    const delay = /_DELAY_(SAMPLES|MS)\s+(\S+)/.exec(chunk);
+    if (delay) out.delay = { value: Number(delay[2]), unit: delay[1] === 'MS' ? 'ms' : 'samples' };
+    const sos = /_sos\s*\[[^\]]*\]\s*\[[^\]]*\]\s*=\s*\{([\s\S]*?)\};/.exec(chunk);
+    if (sos) {
+      const rowRe = /\{([^{}]*)\}\s*,?\s*(?:\/\*\s*\d+\s+(.*?)\s*\*\/)?/g;
+      let m: RegExpExecArray | null;
+      let k = 0;
+      while ((m = rowRe.exec(sos[1])) !== null) {
+        const where = `output ${id} row ${++k}`;
+        const values = cTokens(m[1]).map((t) => readToken(t, profile, where));
+        out.sections.push(toSection(values, names, profile, where, m[2]));
+      }
+    }
+    outputs.push(out);
+  }
+  return { profile, sampleRate: rate ? Number(rate[1]) : profile.sampleRate, outputs, notes: [] };
+}
+
+// ---- to bands and plans --------------------------------------------------------------------------
+
+/** Imported sections as raw bands with ids `<prefix>1`, `<prefix>2`, ... */
+export function sectionsToRawBands(sections: readonly ImportedSection[], prefix = 'r'): Band[] {
+  return sections.map((s, i) => ({
+    id: `${prefix}${i + 1}`,
+    type: 'raw',
+    frequency: 1000,
+    enabled: true,
+    coefficients: { b0: s.b0, b1: s.b1, b2: s.b2, a0: s.a0, a1: s.a1, a2: s.a2 },
+  }));
+}
+
+function safeId(id: string, i: number): string {
+  const s = id.toLowerCase().replace(/[^a-z0-9_-]/g, '_').slice(0, 32);
+  return s === '' ? `out${i + 1}` : s;
+}
+
+/**
+ * A plan that holds an imported list: one output per imported output, its sections as raw bands,
+ * its gain as gainDb and polarity, its delay in ms. Refused (ImportError) when it cannot be a plan.
+ */
+export function importedPlan(list: ImportedList, name: string, fallbackSampleRate: number): Plan {
+  const fs = list.sampleRate ?? fallbackSampleRate;
+  if (list.outputs.length > LIMITS.outputsMax) throw new ImportError('', `${list.outputs.length} outputs, more than a plan's ${LIMITS.outputsMax}`);
+  const outputs = list.outputs.map((o, i) => {
+    if (o.sections.length > LIMITS.bandsMax) throw new ImportError(o.id, `${o.sections.length} sections, more than an output's ${LIMITS.bandsMax} bands`);
+    const g = o.gain ?? 1;
+    if (g === 0) throw new ImportError(`${o.id} gain`, 'a gain of 0 cannot be a plan gain in dB');
+    const gainDb = 20 * Math.log10(Math.abs(g));
+    const delayMs = o.delay === null ? 0 : o.delay.unit === 'ms' ? o.delay.value : (o.delay.value * 1000) / fs;
+    return {
+      id: safeId(o.id, i),
+      name: o.id,
+      gainDb,
+      delayMs,
+      invert: g < 0,
+      mute: false,
+      highPass: null,
+      lowPass: null,
+      bands: sectionsToRawBands(o.sections),
+    };
+  });
+  return { format: PLAN_FORMAT, version: PLAN_VERSION, name, sampleRate: fs, input: { bands: [] }, outputs, profile: list.profile };
+}

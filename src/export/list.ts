@@ -1,0 +1,270 @@
+/**
+ * The export list: one description of what a board gets, from which every format is written
+ * (format.ts) and every check is made (quantized response, per-section report, overflow).
+ *
+ * Steps per output, in signal order (input chain first, as `coeffs` lists them):
+ * 1. the designed sections at the profile's sample rate; a profile rate that differs from the
+ *    plan's redesigns a copy of the plan at that rate (every band keeps its frequency, gain and Q);
+ *    a band at or above the new Nyquist is refused with its field path;
+ * 2. the section budget: an output with more sections than the board runs is refused, naming the
+ *    output and by how many (nothing is dropped);
+ * 3. gain: kept separate, or folded into the first section's b0 b1 b2 (a unity section carries
+ *    it when the output has none);
+ * 4. each coefficient c as written: a1, a2 negated when the board adds the feedback terms, times
+ *    the pre-scaling power of two, then the number format (decimal digits, or Qm.n integers);
+ * 5. back again, exactly: what the board computes (integer / 2^n / scale, sign undone), and the
+ *    per-section report (largest coefficient error, pole radius, saturation, instability).
+ *
+ * The board's a0 is taken as exactly 1 (a written a0 only labels the list; when it saturates,
+ * e.g. 1.0 in Q1.31, it is flagged like any coefficient). The separate gain is written in the same
+ * number format without the pre-scaling (it is not a coefficient).
+ */
+import { poleRadius } from '../analysis/poles';
+import { designPlan, outputGain, type SourcedSection } from '../design/chain';
+import type { Section } from '../design/section';
+import { readPlanValue } from '../plan/read';
+import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
+import { planToJson } from '../plan/write';
+import { fromFixed, toFixed, toHex, type FixedFormat, type Saturation } from './fixed';
+import { effectiveOrder } from './profiles';
+
+/** One number as the board gets it. */
+export interface WrittenNumber {
+  /** The number written: an integer for fixed point, the (rounded) decimal otherwise. */
+  value: number;
+  /** Its text in the text, CSV and JSON formats (hex for fixed point in hex notation). */
+  text: string;
+  saturation: Saturation;
+}
+
+export type SectionKey = 'b0' | 'b1' | 'b2' | 'a1' | 'a2';
+export const SECTION_KEYS: readonly SectionKey[] = ['b0', 'b1', 'b2', 'a1', 'a2'];
+
+export interface ExportSection {
+  /** 1-based position in the output's list. */
+  index: number;
+  from: string;
+  /** The exact design (file convention), gain folded in when the profile says so. */
+  ideal: Section;
+  /** The numbers written, in the profile's order. */
+  written: { name: CoefficientName; number: WrittenNumber }[];
+  /** What the board computes, back in the file convention (exact: integer / 2^n / scale). */
+  quantized: Section;
+  /** Coefficients that saturated (a0 included when written and saturated). */
+  saturated: CoefficientName[];
+  /** Largest |quantized - ideal| over b0 b1 b2 a1 a2, and which coefficient. */
+  largestError: number;
+  largestErrorCoefficient: SectionKey;
+  poleRadiusIdeal: number;
+  /** Largest pole radius of the quantized section; >= 1 is unstable. */
+  poleRadius: number;
+  stable: boolean;
+}
+
+export interface ExportOutput {
+  id: string;
+  name: string;
+  mute: boolean;
+  gain: {
+    /** Linear, polarity included. */
+    ideal: number;
+    /** null when folded into the first section. */
+    written: WrittenNumber | null;
+    /** What the board applies after the cascade (1 when folded). */
+    quantized: number;
+  };
+  delay: { ms: number; samples: number; text: string };
+  sections: ExportSection[];
+}
+
+export interface ExportList {
+  planName: string;
+  profile: BoardProfile;
+  /** The rate the list is designed for (the profile's, or the plan's). */
+  sampleRate: number;
+  planSampleRate: number;
+  redesigned: boolean;
+  /** Things the user should know that do not stop the export. */
+  notes: string[];
+  outputs: ExportOutput[];
+}
+
+export interface ExportProblem {
+  code: 'budget' | 'sample-rate' | 'delay';
+  /** An output id or a field path. */
+  where: string;
+  message: string;
+}
+
+export type ExportResult = { ok: true; list: ExportList } | { ok: false; problems: ExportProblem[] };
+
+/** The plan at the profile's rate: itself, or a redesigned copy; a band above the new Nyquist is refused. */
+export function planAtProfileRate(plan: Plan, profile: BoardProfile): { ok: true; plan: Plan } | { ok: false; problem: ExportProblem } {
+  const fs = profile.sampleRate ?? plan.sampleRate;
+  if (fs === plan.sampleRate) return { ok: true, plan };
+  const r = readPlanValue({ ...planToJson(plan), sampleRate: fs });
+  if (!r.ok) {
+    return {
+      ok: false,
+      problem: {
+        code: 'sample-rate',
+        where: r.error.path,
+        message: `the board runs at ${fs} Hz, the plan at ${plan.sampleRate} Hz; redesigning at ${fs} Hz fails: ${r.error.message}`,
+      },
+    };
+  }
+  return { ok: true, plan: r.plan };
+}
+
+/** Builds the list for every output (or one). Never throws for a valid plan and profile. */
+export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: string): ExportResult {
+  const at = planAtProfileRate(plan, profile);
+  if (!at.ok) return { ok: false, problems: [at.problem] };
+  const p = at.plan;
+  const fs = p.sampleRate;
+  const notes: string[] = [];
+  const redesigned = fs !== plan.sampleRate;
+  if (redesigned) {
+    notes.push(`redesigned at the board's ${fs} Hz (the plan is at ${plan.sampleRate} Hz): every band keeps its frequency, gain and Q`);
+    const raws = [
+      ...p.input.bands.filter((b) => b.type === 'raw').map((b) => `input/${b.id}`),
+      ...p.outputs.flatMap((o) => o.bands.filter((b) => b.type === 'raw').map((b) => `${o.id}/${b.id}`)),
+    ];
+    if (raws.length > 0) notes.push(`raw bands keep their coefficients, so their response moves with the rate: ${raws.join(', ')}`);
+  }
+  const designed = designPlan(p);
+  const problems: ExportProblem[] = [];
+  const outputs: ExportOutput[] = [];
+  p.outputs.forEach((o, i) => {
+    if (outputId !== undefined && o.id !== outputId) return;
+    const d = designed[i];
+    let sections: SourcedSection[] = d.sections;
+    const gain = outputGain(o);
+    if (profile.gain === 'first-section') {
+      sections = sections.length === 0 ? [{ b0: gain, b1: 0, b2: 0, a1: 0, a2: 0, from: `${o.id}/gain` }] : sections.map((s, k) => (k === 0 ? foldGain(s, gain) : s));
+    }
+    if (sections.length > profile.sectionBudget) {
+      const extra = sections.length - profile.sectionBudget;
+      problems.push({
+        code: 'budget',
+        where: o.id,
+        message: `output "${o.id}" needs ${sections.length} sections, ${extra} more than the board's ${profile.sectionBudget}: remove or merge ${extra} band(s) or crossover section(s)`,
+      });
+    }
+    const delaySamples = Math.round((o.delayMs * fs) / 1000);
+    if (profile.maxDelaySamples !== null && delaySamples > profile.maxDelaySamples) {
+      problems.push({
+        code: 'delay',
+        where: `outputs[${i}].delayMs`,
+        message: `output "${o.id}" delays ${delaySamples} samples, ${delaySamples - profile.maxDelaySamples} more than the board's ${profile.maxDelaySamples}`,
+      });
+    }
+    const writtenGain = profile.gain === 'separate' ? writeNumber(gain, profile) : null;
+    outputs.push({
+      id: o.id,
+      name: o.name,
+      mute: o.mute,
+      gain: { ideal: gain, written: writtenGain, quantized: writtenGain ? readBack(writtenGain, profile) : 1 },
+      delay: { ms: o.delayMs, samples: delaySamples, text: profile.delayUnit === 'samples' ? String(delaySamples) : numText(o.delayMs) },
+      sections: sections.map((s, k) => exportSection(s, k + 1, profile)),
+    });
+  });
+  if (problems.length > 0) return { ok: false, problems };
+  const unstable = outputs.flatMap((o) => o.sections.filter((s) => !s.stable).map((s) => `${o.id} section ${s.index} (${s.from})`));
+  if (unstable.length > 0) notes.push(`UNSTABLE after quantization: ${unstable.join(', ')}`);
+  const saturated = outputs.flatMap((o) => o.sections.filter((s) => s.saturated.length > 0).map((s) => `${o.id} section ${s.index} (${s.saturated.join(', ')})`));
+  if (saturated.length > 0) notes.push(`saturated coefficients: ${saturated.join('; ')}`);
+  const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none').map((o) => o.id);
+  if (gainSat.length > 0) notes.push(`output gain saturated: ${gainSat.join(', ')}`);
+  return { ok: true, list: { planName: plan.name, profile, sampleRate: fs, planSampleRate: plan.sampleRate, redesigned, notes, outputs } };
+}
+
+function foldGain(s: SourcedSection, gain: number): SourcedSection {
+  return { ...s, b0: s.b0 * gain, b1: s.b1 * gain, b2: s.b2 * gain };
+}
+
+/** Shortest round-trip decimal; -0 written as 0. */
+export function numText(x: number): string {
+  return Object.is(x, -0) ? '0' : String(x);
+}
+
+export function fixedFormatOf(profile: BoardProfile): FixedFormat | null {
+  return profile.number.kind === 'fixed' ? profile.number : null;
+}
+
+/** One value in the profile's number format (no pre-scaling or sign change here). */
+export function writeNumber(x: number, profile: BoardProfile): WrittenNumber {
+  const n = profile.number;
+  if (n.kind === 'decimal') {
+    const value = n.significantDigits === null ? x : Number(x.toPrecision(n.significantDigits));
+    const v = Object.is(value, -0) ? 0 : value;
+    return { value: v, text: numText(v), saturation: 'none' };
+  }
+  const q = toFixed(x, n);
+  return { value: q.integer, text: n.notation === 'hex' ? toHex(q.integer, n.wordBits) : String(q.integer), saturation: q.saturation };
+}
+
+/** The value a written number stands for (before undoing pre-scaling and sign). */
+export function readBack(w: WrittenNumber, profile: BoardProfile): number {
+  return profile.number.kind === 'fixed' ? fromFixed(w.value, profile.number) : w.value;
+}
+
+/** The sign and scale a coefficient gets before it is written. */
+export function writeFactor(name: CoefficientName, profile: BoardProfile): number {
+  const sign = profile.feedbackSign === 'negated' && (name === 'a1' || name === 'a2') ? -1 : 1;
+  return sign * profile.coefficientScale;
+}
+
+export function exportSection(s: SourcedSection, index: number, profile: BoardProfile): ExportSection {
+  const ideal: Section = { b0: s.b0, b1: s.b1, b2: s.b2, a1: s.a1, a2: s.a2 };
+  const written: ExportSection['written'] = [];
+  const quantized: Section = { ...ideal };
+  const saturated: CoefficientName[] = [];
+  for (const name of effectiveOrder(profile)) {
+    const f = writeFactor(name, profile);
+    const c = name === 'a0' ? 1 : ideal[name];
+    const number = writeNumber(c * f, profile);
+    written.push({ name, number });
+    if (number.saturation !== 'none') saturated.push(name);
+    // Exact: the read-back value is k / 2^n (or a double), divided by a power of two and a sign.
+    if (name !== 'a0') quantized[name] = readBack(number, profile) / f;
+  }
+  let largestError = -1;
+  let largestErrorCoefficient: SectionKey = 'b0';
+  for (const k of SECTION_KEYS) {
+    const e = Math.abs(quantized[k] - ideal[k]);
+    if (e > largestError) {
+      largestError = e;
+      largestErrorCoefficient = k;
+    }
+  }
+  const r = poleRadius(quantized);
+  return {
+    index,
+    from: s.from,
+    ideal,
+    written,
+    quantized,
+    saturated,
+    largestError,
+    largestErrorCoefficient,
+    poleRadiusIdeal: poleRadius(ideal),
+    poleRadius: r,
+    stable: r < 1,
+  };
+}
+
+/** The quantized sections of an output (what the board computes), in list order. */
+export function quantizedSections(o: ExportOutput): Section[] {
+  return o.sections.map((s) => s.quantized);
+}
+
+/** The ideal sections of an output (gain folded in when the profile folds it), in list order. */
+export function idealSections(o: ExportOutput): Section[] {
+  return o.sections.map((s) => s.ideal);
+}
+
+/** Human text for the problems, one line each. */
+export function problemLines(problems: readonly ExportProblem[]): string[] {
+  return problems.map((p) => p.message);
+}

@@ -1,0 +1,93 @@
+/**
+ * Overflow inside a cascade, and a suggested section order and scaling.
+ *
+ * A fixed-point board clips wherever a signal passes full scale, not only at the output: what
+ * matters is the peak gain of every partial cascade H1, H1 H2, ..., H1..HN over the audio band
+ * (10 Hz .. min(20 kHz, 0.45 fs), measured by `headroom`), for a full-scale sine at the input.
+ *
+ * The suggestion follows two published rules:
+ * - Ordering: sections by increasing pole radius, so the poles nearest the unit circle (the most
+ *   peaked sections) come last. This is the order scipy.signal.zpk2sos produces (its notes: pairs
+ *   are formed starting from the poles closest to the unit circle, which end up at the end of the
+ *   cascade), and the ordering L. B. Jackson pairs with L-infinity scaling ("Digital Filters and
+ *   Signal Processing", chapter on quantization effects; from memory). Sections keep their own
+ *   zeros: each band or crossover section is already a pole-zero pair, so nothing is re-paired.
+ *   Ties keep the signal order.
+ * - Scaling: L-infinity (peak) norm scaling (Jackson, same chapter): the cumulative scale before
+ *   the node after section k is S_k = 1 / max(1, peak|H1..Hk|), applied as the factor
+ *   s_k = S_k / S_(k-1) on section k's b0 b1 b2. Limited to attenuation (S_k <= 1): every internal
+ *   peak ends at or below 0 dBFS and nothing is raised above its designed level. The cascade's
+ *   output is then S_N times the designed response; `levelChangeDb` says by how much, to be made
+ *   up after the board's last stage if it has the headroom.
+ * A separate output gain is taken to act after the cascade (the plan's signal order).
+ */
+import { headroom } from '../analysis/headroom';
+import { poleRadius } from '../analysis/poles';
+import type { Section } from '../design/section';
+
+export interface PartialPeak {
+  /** Sections 1..`through` (1-based). */
+  through: number;
+  peakDb: number;
+  frequencyHz: number;
+}
+
+/** The peak gain after section 1, 1..2, ..., 1..N (each over the audio band). */
+export function partialCascadePeaks(sections: readonly Section[], sampleRateHz: number): PartialPeak[] {
+  const out: PartialPeak[] = [];
+  for (let k = 1; k <= sections.length; k++) {
+    const h = headroom(sections.slice(0, k), 1, sampleRateHz);
+    out.push({ through: k, peakDb: h.peakDb, frequencyHz: h.frequencyHz });
+  }
+  return out;
+}
+
+export const SCALING_METHOD =
+  'sections ordered by increasing pole radius (poles nearest the unit circle last), then L-infinity (peak) norm scaling limited to attenuation (L. B. Jackson, "Digital Filters and Signal Processing"; the same ordering as scipy.signal.zpk2sos)';
+
+export interface ScalingSuggestion {
+  method: string;
+  /** 0-based indexes into the given sections, in the suggested order. */
+  order: number[];
+  /** The factor on each suggested section's b0 b1 b2, in the suggested order. */
+  scales: number[];
+  /** The suggested sections (reordered and scaled). */
+  sections: Section[];
+  /** Peaks of the reordered cascade before scaling, and after (each <= 0 dB up to rounding). */
+  peaksUnscaled: PartialPeak[];
+  peaks: PartialPeak[];
+  /** 20 log10 S_N: the level of the cascade's output relative to the design (<= 0). */
+  levelChangeDb: number;
+  /** True when the given order and scale already keep every internal peak at or below 0 dBFS. */
+  alreadySafe: boolean;
+}
+
+/** Internal peaks above this count as overflow (0 dBFS plus rounding of the peak search). */
+export const OVERFLOW_TOLERANCE_DB = 1e-6;
+
+export function suggestOrderAndScaling(sections: readonly Section[], sampleRateHz: number, current?: PartialPeak[]): ScalingSuggestion {
+  const radii = sections.map(poleRadius);
+  const order = sections.map((_, i) => i).sort((a, b) => radii[a] - radii[b] || a - b);
+  const reordered = order.map((i) => sections[i]);
+  const peaksUnscaled = partialCascadePeaks(reordered, sampleRateHz);
+  const scales: number[] = [];
+  let previous = 1;
+  for (const p of peaksUnscaled) {
+    const s = 1 / Math.max(1, Math.pow(10, p.peakDb / 20));
+    scales.push(s / previous);
+    previous = s;
+  }
+  const scaled = reordered.map((s, k) => ({ ...s, b0: s.b0 * scales[k], b1: s.b1 * scales[k], b2: s.b2 * scales[k] }));
+  const peaks = partialCascadePeaks(scaled, sampleRateHz);
+  const given = current ?? partialCascadePeaks(sections, sampleRateHz);
+  return {
+    method: SCALING_METHOD,
+    order,
+    scales,
+    sections: scaled,
+    peaksUnscaled,
+    peaks,
+    levelChangeDb: 20 * Math.log10(previous),
+    alreadySafe: given.every((p) => p.peakDb <= OVERFLOW_TOLERANCE_DB),
+  };
+}
