@@ -80,8 +80,12 @@ export interface DesktopApi {
   discardRecovery(): Promise<void>;
   /** The document this window was opened for (a path from the command line or the OS), or null. */
   initialDocument(): Promise<HostResult<PlanDocument> | null>;
-  /** Tells main whether the window has unsaved changes (for the close prompt and the title). */
-  setDirty(dirty: boolean, title: string): void;
+  /**
+   * Tells main whether the window has unsaved changes (for the close prompt and the title).
+   * `title` is the plan's name; `path` (optional, added later) is the document's file, or null for
+   * a plan never saved, so the title shows the right file after New or a recovered document.
+   */
+  setDirty(dirty: boolean, title: string, path?: string | null): void;
   /** Save dialog for an export (text). */
   saveText(suggestedName: string, text: string, extensions: string[]): Promise<HostResult<string>>;
   /** Subscribes to menu commands; returns an unsubscribe function. */

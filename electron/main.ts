@@ -1,0 +1,623 @@
+/**
+ * The Electron main process: windows (one per plan), the menu, dialogs, and the IPC handlers of
+ * `DesktopApi`. The file logic lives in plain Node modules beside this one (files, recent,
+ * autosave, validate, security), which have their own tests; this file only wires them to Electron.
+ *
+ * Security (Electron's security checklist): every window runs with `contextIsolation`, `sandbox`,
+ * no Node integration, and its page served from `app://biquadrant` under a strict CSP; navigation,
+ * new windows, webviews and permission requests are refused; each IPC call is accepted only from
+ * the main frame of a window this process created, showing the app's own page, and each payload is
+ * validated (plans by the core's reader). A window may write a plan only to a file the user chose
+ * for it (dialog, command line, OS, recent list): a compromised page cannot name a path to clobber.
+ */
+import {
+  app,
+  BrowserWindow,
+  dialog,
+  ipcMain,
+  Menu,
+  protocol,
+  session,
+  type IpcMainEvent,
+  type IpcMainInvokeEvent,
+  type OpenDialogOptions,
+  type SaveDialogOptions,
+} from 'electron';
+import { readFile } from 'node:fs/promises';
+import { dirname, join, normalize } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { IPC, type HostResult, type MenuCommand, type PlanDocument } from '../src/ipc';
+import type { Plan } from '../src/plan/types';
+import { RecoveryStore } from './autosave';
+import { isPlanPath, readPlanFile, savePlanFile, saveTextFile, withPlanExtension } from './files';
+import { planPathsFromArgv } from './launch-args';
+import { buildMenuTemplate } from './menu';
+import { addRecent, defaultCaseInsensitive, hasRecent, loadRecent, removeRecent, saveRecent } from './recent';
+import { APP_BASE, APP_ENTRY_URL, APP_SCHEME, appResponseHeaders, contentSecurityPolicy, resolveAppAsset, withCsp } from './security';
+import { APP_NAME, documentLabel, windowTitle } from './title';
+import {
+  isAppUrl,
+  validateArgumentCount,
+  validateBoolean,
+  validateDocument,
+  validateExtensions,
+  validateFileName,
+  validateOptionalPath,
+  validatePath,
+  validatePlan,
+  validateText,
+  validateTitle,
+} from './validate';
+
+const here = dirname(fileURLToPath(import.meta.url)); // out/main
+const PRELOAD = join(here, '../preload/index.cjs');
+const RENDERER_ROOT = join(here, '../renderer');
+const DEV_SERVER = !app.isPackaged && process.env.ELECTRON_RENDERER_URL ? process.env.ELECTRON_RENDERER_URL : null;
+const APP_URL_BASE = DEV_SERVER ? new URL(DEV_SERVER).origin : APP_BASE;
+const ENTRY_URL = DEV_SERVER ?? APP_ENTRY_URL;
+const CSP = contentSecurityPolicy(DEV_SERVER);
+const PLAN_FILTERS = [{ name: 'Biquadrant plan', extensions: ['bqplan'] }];
+const CASE_INSENSITIVE = defaultCaseInsensitive();
+
+// Same folder in development and in a packaged build (whose name would come from productName).
+app.setPath('userData', join(app.getPath('appData'), APP_NAME));
+
+// Before `ready`: the app scheme behaves like https (standard URL parsing, secure context, fetch).
+protocol.registerSchemesAsPrivileged([
+  { scheme: APP_SCHEME, privileges: { standard: true, secure: true, supportFetchAPI: true } },
+]);
+
+interface WindowState {
+  readonly id: number;
+  readonly win: BrowserWindow;
+  /** The file shown in the title (as the renderer last reported it, or as last opened/saved here). */
+  path: string | null;
+  name: string;
+  dirty: boolean;
+  /** Opened for this file (command line, OS, recent list); `initialDocument` reads it. */
+  initialPath: string | null;
+  /** Files the user chose for this window: `savePlan` and `revertPlan` accept only these. */
+  readonly granted: Set<string>;
+  /** Created to offer a crashed session's work: `takeRecovery` hands it one leftover. */
+  offersRecovery: boolean;
+  prompting: boolean;
+  /** The user chose Save in the close prompt: the next successful save closes the window. */
+  closeAfterSaveUntil: number;
+  closeConfirmed: boolean;
+}
+
+const windows = new Map<number, WindowState>();
+let recent: string[] = [];
+let quitting = false;
+let recovery: RecoveryStore;
+const pendingOpen: string[] = [];
+let ready = false;
+
+function pathKey(path: string): string {
+  const n = normalize(path);
+  return CASE_INSENSITIVE ? n.toLowerCase() : n;
+}
+
+function grant(state: WindowState, path: string): void {
+  state.granted.add(pathKey(path));
+}
+
+function isGranted(state: WindowState, path: string): boolean {
+  return state.granted.has(pathKey(path));
+}
+
+function windowShowing(path: string): WindowState | undefined {
+  const key = pathKey(path);
+  return [...windows.values()].find((s) => s.path !== null && pathKey(s.path) === key);
+}
+
+// ---- title, recent list, menu ------------------------------------------------------------------
+
+function refreshTitle(state: WindowState): void {
+  if (state.win.isDestroyed()) return;
+  state.win.setTitle(windowTitle({ name: state.name, path: state.path, dirty: state.dirty }));
+  state.win.setDocumentEdited(state.dirty);
+  state.win.setRepresentedFilename(state.path ?? '');
+}
+
+function recentFile(): string {
+  return join(app.getPath('userData'), 'recent.json');
+}
+
+async function rememberRecent(path: string): Promise<void> {
+  recent = addRecent(recent, path, { caseInsensitive: CASE_INSENSITIVE });
+  app.addRecentDocument(path);
+  rebuildMenu();
+  await saveRecent(recentFile(), recent).catch((e: unknown) => console.warn('recent list not saved:', e));
+}
+
+async function forgetRecent(path: string): Promise<void> {
+  recent = removeRecent(recent, path, { caseInsensitive: CASE_INSENSITIVE });
+  rebuildMenu();
+  await saveRecent(recentFile(), recent).catch((e: unknown) => console.warn('recent list not saved:', e));
+}
+
+function sendCommand(state: WindowState, command: MenuCommand): void {
+  if (!state.win.isDestroyed()) state.win.webContents.send(IPC.menuCommand, command);
+}
+
+function stateOfWindow(window: { id: number } | undefined | null): WindowState | undefined {
+  return window ? windows.get(window.id) : undefined;
+}
+
+function rebuildMenu(): void {
+  const template = buildMenuTemplate(
+    {
+      command: (command, window) => {
+        const state = stateOfWindow(window) ?? stateOfWindow(BrowserWindow.getFocusedWindow());
+        if (state) return sendCommand(state, command);
+        // No window (macOS keeps running with none): New and Open still work.
+        if (command === 'new') createWindow({});
+        else if (command === 'open') void openWithDialog(undefined);
+      },
+      newWindow: () => createWindow({}),
+      openRecent: (path) => openInWindow(path),
+      clearRecent: () => {
+        recent = [];
+        app.clearRecentDocuments();
+        rebuildMenu();
+        void saveRecent(recentFile(), recent).catch(() => undefined);
+      },
+    },
+    { platform: process.platform, recent, developer: !app.isPackaged },
+  );
+  Menu.setApplicationMenu(Menu.buildFromTemplate(template));
+}
+
+// ---- windows -----------------------------------------------------------------------------------
+
+function createWindow(options: { initialPath?: string; offersRecovery?: boolean }): WindowState {
+  const focused = BrowserWindow.getFocusedWindow();
+  const win = new BrowserWindow({
+    width: 1320,
+    height: 860,
+    minWidth: 760,
+    minHeight: 520,
+    show: false,
+    title: APP_NAME,
+    // Cascade from the focused window so a new one does not hide it exactly.
+    ...(focused ? { x: focused.getBounds().x + 28, y: focused.getBounds().y + 28 } : {}),
+    webPreferences: {
+      preload: PRELOAD,
+      contextIsolation: true,
+      sandbox: true,
+      nodeIntegration: false,
+      nodeIntegrationInWorker: false,
+      nodeIntegrationInSubFrames: false,
+      webSecurity: true,
+      allowRunningInsecureContent: false,
+      webviewTag: false,
+      navigateOnDragDrop: false,
+      spellcheck: false,
+    },
+  });
+  const state: WindowState = {
+    id: win.id,
+    win,
+    path: options.initialPath ?? null,
+    name: '',
+    dirty: false,
+    initialPath: options.initialPath ?? null,
+    granted: new Set(),
+    offersRecovery: options.offersRecovery ?? false,
+    prompting: false,
+    closeAfterSaveUntil: 0,
+    closeConfirmed: false,
+  };
+  if (options.initialPath) grant(state, options.initialPath);
+  windows.set(win.id, state);
+  refreshTitle(state);
+
+  win.once('ready-to-show', () => win.show());
+  win.on('close', (event) => {
+    if (!state.dirty || state.closeConfirmed) return;
+    event.preventDefault();
+    if (!state.prompting) void promptBeforeClose(state);
+  });
+  win.on('closed', () => {
+    windows.delete(state.id);
+    // A window that closes (saved, clean, or changes discarded) leaves no recovery slot behind.
+    void recovery.remove(state.id).catch(() => undefined);
+  });
+  win.webContents.on('render-process-gone', (_event, details) => {
+    if (details.reason === 'clean-exit' || win.isDestroyed()) return;
+    // The page crashed: hand its last autosave to the reloaded page as a leftover.
+    void recovery
+      .release(state.id)
+      .then((had) => {
+        state.offersRecovery = state.offersRecovery || had;
+        state.dirty = false;
+        if (!win.isDestroyed()) void win.loadURL(ENTRY_URL);
+      })
+      .catch((e: unknown) => console.error('recovery after a renderer crash failed:', e));
+  });
+  void win.loadURL(ENTRY_URL);
+  return state;
+}
+
+/** One window per plan: focus the window that shows `path`, or open a new one for it. */
+function openInWindow(path: string): void {
+  if (!ready) {
+    pendingOpen.push(path);
+    return;
+  }
+  const showing = windowShowing(path);
+  if (showing) {
+    if (showing.win.isMinimized()) showing.win.restore();
+    showing.win.focus();
+    return;
+  }
+  createWindow({ initialPath: path });
+}
+
+async function promptBeforeClose(state: WindowState): Promise<void> {
+  state.prompting = true;
+  let response: number;
+  try {
+    state.win.focus();
+    ({ response } = await dialog.showMessageBox(state.win, {
+      type: 'warning',
+      buttons: ['Save', "Don't Save", 'Cancel'],
+      defaultId: 0,
+      cancelId: 2,
+      noLink: true,
+      title: APP_NAME,
+      message: `Save the changes to "${documentLabel(state)}" before closing?`,
+      detail: 'If you do not save, your changes since the last save are lost.',
+    }));
+  } finally {
+    state.prompting = false;
+  }
+  if (state.win.isDestroyed()) return;
+  if (response === 0) {
+    // The renderer holds the plan: ask it to save; a successful save closes the window.
+    state.closeAfterSaveUntil = Date.now() + 10 * 60 * 1000;
+    sendCommand(state, 'save');
+  } else if (response === 1) {
+    state.closeConfirmed = true;
+    await recovery.remove(state.id).catch(() => undefined);
+    state.win.close();
+    if (quitting) app.quit();
+  } else {
+    quitting = false;
+  }
+}
+
+/** After a save: closes the window if the close prompt asked for it. */
+function afterSave(state: WindowState, saved: boolean): void {
+  const wanted = state.closeAfterSaveUntil > Date.now();
+  state.closeAfterSaveUntil = 0;
+  if (!wanted) return;
+  if (!saved) {
+    quitting = false;
+    return;
+  }
+  state.dirty = false;
+  state.closeConfirmed = true;
+  setImmediate(() => {
+    if (!state.win.isDestroyed()) state.win.close();
+    if (quitting) app.quit();
+  });
+}
+
+// ---- dialogs and file operations ---------------------------------------------------------------
+
+async function showOpenDialog(win: BrowserWindow | undefined): Promise<string | null> {
+  const options: OpenDialogOptions = { title: 'Open plan', filters: PLAN_FILTERS, properties: ['openFile'] };
+  const result = win ? await dialog.showOpenDialog(win, options) : await dialog.showOpenDialog(options);
+  return result.canceled || result.filePaths.length === 0 ? null : result.filePaths[0];
+}
+
+/** Open with no window to ask (macOS, all windows closed): the plan opens in a new window. */
+async function openWithDialog(win: BrowserWindow | undefined): Promise<void> {
+  const path = await showOpenDialog(win);
+  if (path) openInWindow(path);
+}
+
+/** Reads a plan for a window; on success the window shows that file and may save to it. */
+async function loadFor(state: WindowState, path: string): Promise<HostResult<PlanDocument>> {
+  const read = await readPlanFile(path);
+  if (!read.ok) {
+    if (/does not exist/.test(read.error) && hasRecent(recent, path, { caseInsensitive: CASE_INSENSITIVE })) await forgetRecent(path);
+    return { ok: false, error: read.error };
+  }
+  state.path = path;
+  grant(state, path);
+  refreshTitle(state);
+  await rememberRecent(path);
+  return { ok: true, value: { plan: read.value, path } };
+}
+
+async function savePlanTo(state: WindowState, plan: Plan, path: string): Promise<HostResult<string>> {
+  const saved = await savePlanFile(path, plan);
+  if (!saved.ok) {
+    afterSave(state, false);
+    return { ok: false, error: saved.error };
+  }
+  state.path = path;
+  state.name = saved.value.name;
+  grant(state, path);
+  await recovery.remove(state.id).catch(() => undefined);
+  await rememberRecent(path);
+  refreshTitle(state);
+  afterSave(state, true);
+  return { ok: true, value: path };
+}
+
+function safeFileStem(name: string): string {
+  // eslint-disable-next-line no-control-regex
+  const stem = name.replace(/[\u0000-\u001f<>:"/\\|?*]+/g, ' ').replace(/\s+/g, ' ').trim().slice(0, 80);
+  return stem || 'plan';
+}
+
+async function savePlanWithDialog(state: WindowState, plan: Plan, suggestedPath: string | null): Promise<HostResult<string>> {
+  const defaultPath = suggestedPath ?? join(app.getPath('documents'), `${safeFileStem(plan.name)}.bqplan`);
+  const options: SaveDialogOptions = {
+    title: 'Save plan',
+    defaultPath,
+    filters: PLAN_FILTERS,
+    properties: ['createDirectory', 'showOverwriteConfirmation'],
+  };
+  const result = await dialog.showSaveDialog(state.win, options);
+  if (result.canceled || !result.filePath) {
+    afterSave(state, false);
+    return { ok: false, cancelled: true };
+  }
+  return savePlanTo(state, plan, withPlanExtension(result.filePath));
+}
+
+// ---- IPC ---------------------------------------------------------------------------------------
+
+/**
+ * The window that sent an IPC message, or null when the sender is not to be trusted: not the main
+ * frame, not the app's page, or not a window this process created.
+ */
+function senderState(event: IpcMainInvokeEvent | IpcMainEvent): WindowState | null {
+  const frame = event.senderFrame;
+  if (!frame || frame.parent !== null) return null;
+  if (!isAppUrl(frame.url, APP_URL_BASE)) return null;
+  const win = BrowserWindow.fromWebContents(event.sender);
+  if (!win) return null;
+  const state = windows.get(win.id);
+  if (!state || state.win.webContents !== event.sender) return null;
+  return state;
+}
+
+class Refused extends Error {}
+
+function refused(channel: string, reason: string): never {
+  console.warn(`IPC ${channel} refused: ${reason}`);
+  throw new Refused(`${channel} refused: ${reason}`);
+}
+
+/** Registers an invoke handler that checks the sender and the argument count first. */
+function handle(channel: string, argumentCount: number, fn: (state: WindowState, args: unknown[]) => Promise<unknown>): void {
+  ipcMain.handle(channel, async (event, ...args: unknown[]) => {
+    const state = senderState(event);
+    if (!state) refused(channel, 'unknown sender');
+    const count = validateArgumentCount(args, argumentCount);
+    if (!count.ok) refused(channel, count.error);
+    return fn(state, args);
+  });
+}
+
+/** For methods returning a HostResult: a bad payload is an `{ok: false, error}` the renderer can show. */
+function bad(channel: string, error: string): HostResult<never> {
+  console.warn(`IPC ${channel} refused: ${error}`);
+  return { ok: false, error };
+}
+
+function registerIpc(): void {
+  handle(IPC.openPlan, 0, async (state) => {
+    const path = await showOpenDialog(state.win);
+    if (!path) return { ok: false, cancelled: true };
+    const showing = windowShowing(path);
+    if (showing && showing !== state) {
+      showing.win.focus();
+      return { ok: false, error: `"${documentLabel(showing)}" is already open in another window.` };
+    }
+    return loadFor(state, path);
+  });
+
+  handle(IPC.openRecent, 1, async (state, [path]) => {
+    const p = validatePath(path);
+    if (!p.ok) return bad(IPC.openRecent, p.error);
+    if (!hasRecent(recent, p.value, { caseInsensitive: CASE_INSENSITIVE })) return bad(IPC.openRecent, 'path: not in the recent list');
+    return loadFor(state, p.value);
+  });
+
+  handle(IPC.savePlan, 2, async (state, [plan, path]) => {
+    const pl = validatePlan(plan);
+    if (!pl.ok) return bad(IPC.savePlan, pl.error);
+    const p = validateOptionalPath(path);
+    if (!p.ok) return bad(IPC.savePlan, p.error);
+    if (p.value === null) return savePlanWithDialog(state, pl.value, null);
+    if (!isPlanPath(p.value) || !isGranted(state, p.value)) {
+      // Only files the user chose for this window; anything else goes through the dialog.
+      return savePlanWithDialog(state, pl.value, isPlanPath(p.value) ? p.value : null);
+    }
+    return savePlanTo(state, pl.value, p.value);
+  });
+
+  handle(IPC.savePlanAs, 2, async (state, [plan, suggestedPath]) => {
+    const pl = validatePlan(plan);
+    if (!pl.ok) return bad(IPC.savePlanAs, pl.error);
+    const p = validateOptionalPath(suggestedPath, 'suggestedPath');
+    if (!p.ok) return bad(IPC.savePlanAs, p.error);
+    return savePlanWithDialog(state, pl.value, p.value);
+  });
+
+  handle(IPC.revertPlan, 1, async (state, [path]) => {
+    const p = validatePath(path);
+    if (!p.ok) return bad(IPC.revertPlan, p.error);
+    if (!isGranted(state, p.value)) return bad(IPC.revertPlan, 'path: this window did not open or save that file');
+    return loadFor(state, p.value);
+  });
+
+  handle(IPC.autosave, 1, async (state, [doc]) => {
+    const d = validateDocument(doc);
+    if (!d.ok) refused(IPC.autosave, d.error);
+    await recovery.write(state.id, d.value);
+  });
+
+  handle(IPC.takeRecovery, 0, async (state) => {
+    if (!state.offersRecovery) return null;
+    state.offersRecovery = false;
+    const doc = await recovery.takeLeftover();
+    if (doc?.path && isPlanPath(doc.path)) {
+      grant(state, doc.path);
+      state.path = doc.path;
+      refreshTitle(state);
+    }
+    return doc;
+  });
+
+  handle(IPC.discardRecovery, 0, async (state) => {
+    await recovery.remove(state.id);
+  });
+
+  handle(IPC.initialDocument, 0, async (state) => {
+    if (!state.initialPath) return null;
+    const result = await loadFor(state, state.initialPath);
+    if (!result.ok) {
+      state.path = null;
+      refreshTitle(state);
+    }
+    return result;
+  });
+
+  handle(IPC.saveText, 3, async (state, [suggestedName, text, extensions]) => {
+    const n = validateFileName(suggestedName);
+    if (!n.ok) return bad(IPC.saveText, n.error);
+    const t = validateText(text);
+    if (!t.ok) return bad(IPC.saveText, t.error);
+    const x = validateExtensions(extensions);
+    if (!x.ok) return bad(IPC.saveText, x.error);
+    const result = await dialog.showSaveDialog(state.win, {
+      title: 'Export',
+      defaultPath: join(app.getPath('documents'), n.value),
+      filters: [{ name: 'Export', extensions: x.value }],
+      properties: ['createDirectory', 'showOverwriteConfirmation'],
+    });
+    if (result.canceled || !result.filePath) return { ok: false, cancelled: true };
+    const saved = await saveTextFile(result.filePath, t.value);
+    return saved.ok ? { ok: true, value: saved.value } : { ok: false, error: saved.error };
+  });
+
+  ipcMain.on(IPC.setDirty, (event, ...args: unknown[]) => {
+    const state = senderState(event);
+    if (!state) return void console.warn(`IPC ${IPC.setDirty} refused: unknown sender`);
+    if (args.length < 2 || args.length > 3) return void console.warn(`IPC ${IPC.setDirty} refused: expected 2 or 3 arguments`);
+    const dirty = validateBoolean(args[0], 'dirty');
+    if (!dirty.ok) return void console.warn(`IPC ${IPC.setDirty} refused: ${dirty.error}`);
+    const title = validateTitle(args[1]);
+    if (!title.ok) return void console.warn(`IPC ${IPC.setDirty} refused: ${title.error}`);
+    const path = args.length === 3 ? validateOptionalPath(args[2]) : null;
+    if (path && !path.ok) return void console.warn(`IPC ${IPC.setDirty} refused: ${path.error}`);
+    state.dirty = dirty.value;
+    state.name = title.value;
+    // Display only: a path reported here is not a file this window may write.
+    if (path && path.ok) state.path = path.value;
+    refreshTitle(state);
+  });
+}
+
+// ---- security for every web contents ---------------------------------------------------------
+
+function hardenSessions(): void {
+  const ses = session.defaultSession;
+  ses.setPermissionRequestHandler((contents, permission, callback) => {
+    // Clipboard writes (copying coefficients) and full screen are all the page may ask for.
+    const fromApp = isAppUrl(contents.getURL(), APP_URL_BASE);
+    callback(fromApp && (permission === 'clipboard-sanitized-write' || permission === 'fullscreen'));
+  });
+  ses.setPermissionCheckHandler((_contents, permission, requestingOrigin) => {
+    return isAppUrl(requestingOrigin, APP_URL_BASE) && (permission === 'clipboard-sanitized-write' || permission === 'fullscreen');
+  });
+  ses.webRequest.onHeadersReceived((details, callback) => {
+    if (isAppUrl(details.url, APP_URL_BASE)) callback({ responseHeaders: withCsp(details.responseHeaders, CSP) });
+    else callback({});
+  });
+  protocol.handle(APP_SCHEME, async (request) => {
+    const asset = resolveAppAsset(RENDERER_ROOT, request.url);
+    if (!asset || request.method !== 'GET') return new Response('Not found', { status: 404 });
+    try {
+      const body = await readFile(asset.file);
+      return new Response(new Uint8Array(body), { status: 200, headers: appResponseHeaders(asset.mimeType, CSP) });
+    } catch {
+      return new Response('Not found', { status: 404 });
+    }
+  });
+}
+
+app.on('web-contents-created', (_event, contents) => {
+  contents.setWindowOpenHandler(() => ({ action: 'deny' }));
+  contents.on('will-navigate', (event) => event.preventDefault());
+  contents.on('will-redirect', (event) => event.preventDefault());
+  contents.on('will-attach-webview', (event) => event.preventDefault());
+});
+
+// ---- start-up ----------------------------------------------------------------------------------
+
+async function start(): Promise<void> {
+  await app.whenReady();
+  hardenSessions();
+  registerIpc();
+  recovery = new RecoveryStore(join(app.getPath('userData'), 'recovery'));
+  recent = await loadRecent(recentFile(), { caseInsensitive: CASE_INSENSITIVE });
+  rebuildMenu();
+  let leftovers = 0;
+  try {
+    leftovers = await recovery.claimLeftovers();
+  } catch (e) {
+    console.error('could not look for unsaved work from the last session:', e);
+  }
+  ready = true;
+  const paths = [...planPathsFromArgv(process.argv, process.cwd()), ...pendingOpen.splice(0)];
+  for (const path of paths) openInWindow(path);
+  // One window per document left by a crash, each offering it; at least one window.
+  const recoveryWindows = Math.max(leftovers, windows.size === 0 ? 1 : 0);
+  for (let i = 0; i < recoveryWindows; i++) createWindow({ offersRecovery: i < leftovers });
+}
+
+if (!app.requestSingleInstanceLock()) {
+  // Another instance runs: it receives our argv through `second-instance` and opens the plans.
+  app.quit();
+} else {
+  app.on('second-instance', (_event, argv, workingDirectory) => {
+    const paths = planPathsFromArgv(argv, workingDirectory);
+    if (paths.length > 0) {
+      for (const path of paths) openInWindow(path);
+      return;
+    }
+    const first = [...windows.values()][0];
+    if (first) {
+      if (first.win.isMinimized()) first.win.restore();
+      first.win.focus();
+    } else if (ready) createWindow({});
+  });
+  // macOS: a plan double-clicked in the Finder or dropped on the Dock icon (may come before `ready`).
+  app.on('open-file', (event, path) => {
+    event.preventDefault();
+    if (isPlanPath(path)) openInWindow(path);
+  });
+  app.on('before-quit', () => {
+    quitting = true;
+  });
+  app.on('window-all-closed', () => {
+    if (process.platform !== 'darwin' || quitting) app.quit();
+  });
+  app.on('activate', () => {
+    if (ready && windows.size === 0) createWindow({});
+  });
+  start().catch((e: unknown) => {
+    console.error(e);
+    dialog.showErrorBox(APP_NAME, `Biquadrant could not start: ${e instanceof Error ? e.message : String(e)}`);
+    app.exit(1);
+  });
+}
