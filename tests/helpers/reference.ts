@@ -74,3 +74,22 @@ export function kernelAt(sections: readonly Section[], freqs: readonly number[],
   cascadeResponse(packSections(sections), sections.length, normalizedOmega(freqs, fs), out);
   return out;
 }
+
+/**
+ * The same bound for the group delay: each term N'/N (and D'/D) has |N'| <= 2 sum|b|, so an
+ * evaluation error of u relative in N and N' moves it by about 2 u (sum|b| / |N|)^2.
+ * Returns sum over sections of 2 (sum|b| / |N|)^2 + 2 ((1 + |a1| + |a2|) / |D|)^2 (in samples per u).
+ */
+export function groupDelaySensitivity(sections: readonly Section[], w: number): number {
+  const c1 = Math.cos(w);
+  const s1 = Math.sin(w);
+  const c2 = Math.cos(2 * w);
+  const s2 = Math.sin(2 * w);
+  let k = 0;
+  for (const s of sections) {
+    const n = Math.hypot(s.b0 + s.b1 * c1 + s.b2 * c2, s.b1 * s1 + s.b2 * s2);
+    const d = Math.hypot(1 + s.a1 * c1 + s.a2 * c2, s.a1 * s1 + s.a2 * s2);
+    k += 2 * ((Math.abs(s.b0) + Math.abs(s.b1) + Math.abs(s.b2)) / n) ** 2 + 2 * ((1 + Math.abs(s.a1) + Math.abs(s.a2)) / d) ** 2;
+  }
+  return k;
+}

@@ -300,12 +300,13 @@ def cookbook_cases():
 def first_order_cases():
     """Bilinear transform pre-warped at f: scipy.signal.bilinear of the analog section with
     wc = 2 fs tan(pi f / fs): low-pass wc / (s + wc), high-pass s / (s + wc),
-    all-pass (s - wc) / (s + wc)."""
+    all-pass (wc - s) / (s + wc) (= low-pass minus high-pass: 0 degrees at DC, -90 at f, -180 at
+    Nyquist, the phase convention of the cookbook's second-order all-pass)."""
     cases = []
     for fs in (44100.0, 48000.0, 96000.0, 192000.0):
         for f in (20.0, 1000.0, 15000.0):
             wc = 2 * fs * math.tan(math.pi * f / fs)
-            for kind, b, a in (('lowPass1', [wc], [1.0, wc]), ('highPass1', [1.0, 0.0], [1.0, wc]), ('allPass1', [1.0, -wc], [1.0, wc])):
+            for kind, b, a in (('lowPass1', [wc], [1.0, wc]), ('highPass1', [1.0, 0.0], [1.0, wc]), ('allPass1', [-1.0, wc], [1.0, wc])):
                 bz, az = sig.bilinear(b, a, fs=fs)
                 bz = list(bz) + [0.0] * (2 - len(bz) + 1)
                 az = list(az) + [0.0] * (2 - len(az) + 1)
