@@ -13,8 +13,14 @@
  * The loop runs over points, then sections, on a packed Float64Array, allocating nothing per
  * point; the complex product is kept as one running value and rescaled when it leaves
  * [1e-200, 1e200], so deep stop bands of long cascades neither underflow nor overflow.
+ *
+ * `cascadeResponse` runs the section loop in WebAssembly SIMD (kernel.wat, two points per
+ * instruction) where the host allows it, and in plain JavaScript (`cascadeResponseJs`) otherwise,
+ * for instance under a Content-Security-Policy without 'wasm-unsafe-eval'. Both compute the same
+ * expressions; the tests hold them to each other and to scipy.
  */
 import { SECTION_STRIDE } from '../design/section';
+import { KERNEL_WASM_HEX } from './kernel-wasm-bytes';
 
 /** Caller-provided result arrays, one value per point. */
 export interface KernelOutput {
@@ -46,6 +52,14 @@ const RESCALE_HIGH = 1e200;
  * frequencies `omega` (radians per sample, w = 2 pi f / fs) and writes into `out`.
  */
 export function cascadeResponse(packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
+  // Below a few dozen points the copy in and out of WebAssembly memory costs more than it saves.
+  const wasm = omega.length >= WASM_MIN_POINTS ? wasmKernel() : null;
+  if (wasm) cascadeResponseWasm(wasm, packed, sectionCount, omega, out);
+  else cascadeResponseJs(packed, sectionCount, omega, out);
+}
+
+/** The plain JavaScript kernel (the reference the WebAssembly one is tested against). */
+export function cascadeResponseJs(packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
   const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
   const points = omega.length;
   for (let i = 0; i < points; i++) {
@@ -105,4 +119,95 @@ export function normalizedOmega(frequenciesHz: ArrayLike<number>, sampleRateHz: 
   const k = (2 * Math.PI) / sampleRateHz;
   for (let i = 0; i < frequenciesHz.length; i++) out[i] = k * frequenciesHz[i];
   return out;
+}
+
+// ---- WebAssembly ------------------------------------------------------------------------------
+
+/** The few WebAssembly API members used here (the core is typed without DOM or Node libraries). */
+interface WasmMemory {
+  buffer: ArrayBuffer;
+  grow(pages: number): number;
+}
+interface WasmApi {
+  Module: new (bytes: Uint8Array) => object;
+  Instance: new (module: object, imports: object) => { exports: { memory: WasmMemory; cascade: (sec: number, nsec: number, pts: number, n8: number) => void } };
+}
+interface WasmKernel {
+  memory: WasmMemory;
+  cascade: (sec: number, nsec: number, pts: number, n8: number) => void;
+}
+
+let wasmState: WasmKernel | null | undefined;
+
+/** Set to false to force the JavaScript kernel (tests and benchmarks compare the two). */
+export function useWasmKernel(enabled: boolean): void {
+  wasmState = enabled ? undefined : null;
+}
+
+/** The instantiated kernel, or null where WebAssembly SIMD is unavailable or refused. */
+export function wasmKernel(): WasmKernel | null {
+  if (wasmState !== undefined) return wasmState;
+  wasmState = null;
+  try {
+    const api = (globalThis as unknown as { WebAssembly?: WasmApi }).WebAssembly;
+    if (!api) return null;
+    const bytes = new Uint8Array(KERNEL_WASM_HEX.length / 2);
+    for (let i = 0; i < bytes.length; i++) bytes[i] = parseInt(KERNEL_WASM_HEX.substr(2 * i, 2), 16);
+    const instance = new api.Instance(new api.Module(bytes), {});
+    wasmState = { memory: instance.exports.memory, cascade: instance.exports.cascade };
+  } catch {
+    wasmState = null;
+  }
+  return wasmState;
+}
+
+const WASM_PAGE = 65536;
+const WASM_MIN_POINTS = 32;
+/** dB per unit of the kernel's rescale count: 10 log10(2^664). */
+const DB_PER_RESCALE = 6640 * Math.log10(2);
+
+function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
+  const points = omega.length;
+  const padded = points + (points & 1);
+  const secBytes = sectionCount * SECTION_STRIDE * 16;
+  const ptsOffset = Math.ceil(secBytes / 16) * 16;
+  const need = ptsOffset + 9 * padded * 8;
+  if (k.memory.buffer.byteLength < need) k.memory.grow(Math.ceil((need - k.memory.buffer.byteLength) / WASM_PAGE));
+  const mem = new Float64Array(k.memory.buffer);
+  // Each coefficient twice, one per SIMD lane.
+  for (let j = 0, n = sectionCount * SECTION_STRIDE; j < n; j++) mem[2 * j] = mem[2 * j + 1] = packed[j];
+  const base = ptsOffset / 8;
+  const cos1 = base;
+  const sin1 = base + padded;
+  const cos2 = base + 2 * padded;
+  const sin2 = base + 3 * padded;
+  for (let i = 0; i < points; i++) {
+    const c = Math.cos(omega[i]);
+    const s = Math.sin(omega[i]);
+    mem[cos1 + i] = c;
+    mem[sin1 + i] = s;
+    mem[cos2 + i] = c * c - s * s;
+    mem[sin2 + i] = 2 * s * c;
+  }
+  for (let i = points; i < padded; i++) {
+    mem[cos1 + i] = 1;
+    mem[sin1 + i] = 0;
+    mem[cos2 + i] = 1;
+    mem[sin2 + i] = 0;
+  }
+  k.cascade(0, sectionCount, ptsOffset, padded * 8);
+  const hr = base + 4 * padded;
+  const hi = base + 5 * padded;
+  const cnt = base + 6 * padded;
+  const tau = base + 7 * padded;
+  const slope = base + 8 * padded;
+  const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
+  for (let i = 0; i < points; i++) {
+    const r = mem[hr + i];
+    const m = mem[hi + i];
+    magnitudeDb[i] = DB_PER_NEPER_SQUARED * Math.log(r * r + m * m) + DB_PER_RESCALE * mem[cnt + i];
+    phaseRad[i] = Math.atan2(m, r);
+    groupDelaySamples[i] = mem[tau + i];
+    logSlope[i] = mem[slope + i];
+  }
 }

@@ -1,0 +1,114 @@
+;; The response kernel's section loop in WebAssembly with 128-bit SIMD: two frequency points per
+;; lane pair (f64x2). It computes exactly what `cascadeResponseJs` in kernel.ts computes, per
+;; point: the running product H = prod N conj(D) / |D|^2, the group delay tau = Re Q and the
+;; log-magnitude slope Im Q, Q = sum (N'/N - D'/D) (see kernel.ts). Transcendentals (cos, sin,
+;; log, atan2) stay in JavaScript, once per point.
+;;
+;; Memory layout (byte offsets; n8 = 8 x the padded, even point count):
+;;   sec .. sec + 80 nsec : sections, [b0 b0 b1 b1 b2 b2 a1 a1 a2 a2] as f64 (each twice, one per lane)
+;;   pts + k n8          : k = 0 cos w, 1 sin w, 2 cos 2w, 3 sin 2w        (inputs)
+;;                          k = 4 Re H, 5 Im H, 6 rescale count, 7 tau, 8 slope (outputs)
+;; Rescaling: when |H|^2 leaves [1e-200, 1e200], H is multiplied by 2^-332 or 2^332 (exact) and
+;; the count moves by +1 or -1: |H|^2 (true) = |H|^2 (stored) x 2^(664 count).
+;;
+;; Regenerate the bytes in kernel-wasm-bytes.ts with `npm run build:wasm` after editing.
+(module
+  (memory (export "memory") 1)
+  (func (export "cascade") (param $sec i32) (param $nsec i32) (param $pts i32) (param $n8 i32)
+    (local $p i32) (local $end i32) (local $o i32) (local $oend i32)
+    (local $c1 v128) (local $s1 v128) (local $c2 v128) (local $s2 v128)
+    (local $hr v128) (local $hi v128) (local $cnt v128) (local $tau v128) (local $slope v128)
+    (local $b0 v128) (local $b1 v128) (local $b2 v128) (local $a1 v128) (local $a2 v128)
+    (local $b1c v128) (local $b2c v128) (local $b1s v128) (local $b2s v128)
+    (local $a1c v128) (local $a2c v128) (local $a1s v128) (local $a2s v128)
+    (local $nr v128) (local $nin v128) (local $dr v128) (local $din v128)
+    (local $npr v128) (local $npin v128) (local $dpr v128) (local $dpin v128)
+    (local $nn v128) (local $dd v128) (local $inv v128) (local $idd v128)
+    (local $tr v128) (local $ti v128) (local $h v128) (local $m2 v128)
+    (local $mhi v128) (local $mlo v128) (local $f v128)
+    (local.set $p (local.get $pts))
+    (local.set $end (i32.add (local.get $pts) (local.get $n8)))
+    (local.set $oend (i32.add (local.get $sec) (i32.mul (local.get $nsec) (i32.const 80))))
+    (block $done
+      (loop $points
+        (br_if $done (i32.ge_u (local.get $p) (local.get $end)))
+        (local.set $c1 (v128.load (local.get $p)))
+        (local.set $s1 (v128.load (i32.add (local.get $p) (local.get $n8))))
+        (local.set $c2 (v128.load (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 2)))))
+        (local.set $s2 (v128.load (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 3)))))
+        (local.set $hr (v128.const f64x2 1 1))
+        (local.set $hi (v128.const f64x2 0 0))
+        (local.set $cnt (v128.const f64x2 0 0))
+        (local.set $tau (v128.const f64x2 0 0))
+        (local.set $slope (v128.const f64x2 0 0))
+        (local.set $o (local.get $sec))
+        (block $sdone
+          (loop $sections
+            (br_if $sdone (i32.ge_u (local.get $o) (local.get $oend)))
+            (local.set $b0 (v128.load (local.get $o)))
+            (local.set $b1 (v128.load offset=16 (local.get $o)))
+            (local.set $b2 (v128.load offset=32 (local.get $o)))
+            (local.set $a1 (v128.load offset=48 (local.get $o)))
+            (local.set $a2 (v128.load offset=64 (local.get $o)))
+            (local.set $b1c (f64x2.mul (local.get $b1) (local.get $c1)))
+            (local.set $b2c (f64x2.mul (local.get $b2) (local.get $c2)))
+            (local.set $b1s (f64x2.mul (local.get $b1) (local.get $s1)))
+            (local.set $b2s (f64x2.mul (local.get $b2) (local.get $s2)))
+            (local.set $a1c (f64x2.mul (local.get $a1) (local.get $c1)))
+            (local.set $a2c (f64x2.mul (local.get $a2) (local.get $c2)))
+            (local.set $a1s (f64x2.mul (local.get $a1) (local.get $s1)))
+            (local.set $a2s (f64x2.mul (local.get $a2) (local.get $s2)))
+            ;; N = nr - j nin, D = dr - j din, N' = npr - j npin, D' = dpr - j dpin
+            (local.set $nr (f64x2.add (local.get $b0) (f64x2.add (local.get $b1c) (local.get $b2c))))
+            (local.set $nin (f64x2.add (local.get $b1s) (local.get $b2s)))
+            (local.set $dr (f64x2.add (v128.const f64x2 1 1) (f64x2.add (local.get $a1c) (local.get $a2c))))
+            (local.set $din (f64x2.add (local.get $a1s) (local.get $a2s)))
+            (local.set $npr (f64x2.add (local.get $b1c) (f64x2.add (local.get $b2c) (local.get $b2c))))
+            (local.set $npin (f64x2.add (local.get $b1s) (f64x2.add (local.get $b2s) (local.get $b2s))))
+            (local.set $dpr (f64x2.add (local.get $a1c) (f64x2.add (local.get $a2c) (local.get $a2c))))
+            (local.set $dpin (f64x2.add (local.get $a1s) (f64x2.add (local.get $a2s) (local.get $a2s))))
+            (local.set $nn (f64x2.add (f64x2.mul (local.get $nr) (local.get $nr)) (f64x2.mul (local.get $nin) (local.get $nin))))
+            (local.set $dd (f64x2.add (f64x2.mul (local.get $dr) (local.get $dr)) (f64x2.mul (local.get $din) (local.get $din))))
+            (local.set $inv (f64x2.div (v128.const f64x2 1 1) (f64x2.mul (local.get $nn) (local.get $dd))))
+            ;; tau += (Re(N' conj N) |D|^2 - Re(D' conj D) |N|^2) / (|N|^2 |D|^2)
+            (local.set $tau (f64x2.add (local.get $tau)
+              (f64x2.mul (local.get $inv)
+                (f64x2.sub
+                  (f64x2.mul (local.get $dd) (f64x2.add (f64x2.mul (local.get $npr) (local.get $nr)) (f64x2.mul (local.get $npin) (local.get $nin))))
+                  (f64x2.mul (local.get $nn) (f64x2.add (f64x2.mul (local.get $dpr) (local.get $dr)) (f64x2.mul (local.get $dpin) (local.get $din))))))))
+            ;; slope += (Im(N' conj N) |D|^2 - Im(D' conj D) |N|^2) / (|N|^2 |D|^2)
+            (local.set $slope (f64x2.add (local.get $slope)
+              (f64x2.mul (local.get $inv)
+                (f64x2.sub
+                  (f64x2.mul (local.get $dd) (f64x2.sub (f64x2.mul (local.get $npr) (local.get $nin)) (f64x2.mul (local.get $npin) (local.get $nr))))
+                  (f64x2.mul (local.get $nn) (f64x2.sub (f64x2.mul (local.get $dpr) (local.get $din)) (f64x2.mul (local.get $dpin) (local.get $dr))))))))
+            ;; T = N conj(D) / |D|^2; H *= T
+            (local.set $idd (f64x2.mul (local.get $nn) (local.get $inv)))
+            (local.set $tr (f64x2.mul (local.get $idd) (f64x2.add (f64x2.mul (local.get $nr) (local.get $dr)) (f64x2.mul (local.get $nin) (local.get $din)))))
+            (local.set $ti (f64x2.mul (local.get $idd) (f64x2.sub (f64x2.mul (local.get $nr) (local.get $din)) (f64x2.mul (local.get $nin) (local.get $dr)))))
+            (local.set $h (f64x2.sub (f64x2.mul (local.get $hr) (local.get $tr)) (f64x2.mul (local.get $hi) (local.get $ti))))
+            (local.set $hi (f64x2.add (f64x2.mul (local.get $hr) (local.get $ti)) (f64x2.mul (local.get $hi) (local.get $tr))))
+            (local.set $hr (local.get $h))
+            (local.set $m2 (f64x2.add (f64x2.mul (local.get $hr) (local.get $hr)) (f64x2.mul (local.get $hi) (local.get $hi))))
+            (local.set $mhi (f64x2.gt (local.get $m2) (v128.const f64x2 1e200 1e200)))
+            (local.set $mlo (f64x2.lt (local.get $m2) (v128.const f64x2 1e-200 1e-200)))
+            (if (v128.any_true (v128.or (local.get $mhi) (local.get $mlo)))
+              (then
+                (local.set $f (v128.bitselect (v128.const f64x2 0x1p-332 0x1p-332) (v128.const f64x2 1 1) (local.get $mhi)))
+                (local.set $f (v128.bitselect (v128.const f64x2 0x1p332 0x1p332) (local.get $f) (local.get $mlo)))
+                (local.set $hr (f64x2.mul (local.get $hr) (local.get $f)))
+                (local.set $hi (f64x2.mul (local.get $hi) (local.get $f)))
+                (local.set $cnt (f64x2.add (local.get $cnt)
+                  (f64x2.sub
+                    (v128.and (local.get $mhi) (v128.const f64x2 1 1))
+                    (v128.and (local.get $mlo) (v128.const f64x2 1 1)))))))
+            (local.set $o (i32.add (local.get $o) (i32.const 80)))
+            (br $sections)))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 4))) (local.get $hr))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 5))) (local.get $hi))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 6))) (local.get $cnt))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 7))) (local.get $tau))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 8))) (local.get $slope))
+        (local.set $p (i32.add (local.get $p) (i32.const 16)))
+        (br $points))))
+)
