@@ -91,7 +91,7 @@ export function qName(f: { integerBits: number; fractionBits: number }): string 
   return `Q${f.integerBits}.${f.fractionBits}`;
 }
 
-/** Parses "Q5.23" (word: the smallest of 16..32 that holds m + n bits); null when malformed or out of range. */
+/** Parses "Q5.23" (word: 16 bits when m + n fits, else 32); null when malformed or out of range. */
 export function parseQFormat(text: string): FixedFormat | null {
   const m = /^Q(\d{1,2})\.(\d{1,2})$/i.exec(text.trim());
   if (!m) return null;
@@ -99,5 +99,5 @@ export function parseQFormat(text: string): FixedFormat | null {
   const fractionBits = Number(m[2]);
   const bits = integerBits + fractionBits;
   if (integerBits < 1 || bits > 32) return null;
-  return { integerBits, fractionBits, wordBits: Math.max(16, bits) };
+  return { integerBits, fractionBits, wordBits: bits <= 16 ? 16 : 32 };
 }

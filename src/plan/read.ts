@@ -140,33 +140,34 @@ const PROFILE_KEYS = [
 export function readBoardProfile(v: unknown, path: string): BoardProfile {
   const o = object(v, path);
   allowKeys(o, path, PROFILE_KEYS);
-  const name = str(o.name, `${path}.name`, LIMITS.nameMaxLength);
+  const at = (key: string) => (path ? `${path}.${key}` : key);
+  const name = str(o.name, at('name'), LIMITS.nameMaxLength);
   let sampleRate: number | null = null;
   if (o.sampleRate !== undefined && o.sampleRate !== null) {
-    sampleRate = num(o.sampleRate, `${path}.sampleRate`);
+    sampleRate = num(o.sampleRate, at('sampleRate'));
     if (sampleRate < LIMITS.sampleRateMinHz || sampleRate > LIMITS.sampleRateMaxHz) {
-      throw new PlanError(`${path}.sampleRate`, `must be between ${LIMITS.sampleRateMinHz} and ${LIMITS.sampleRateMaxHz} Hz, or null for the plan's rate`);
+      throw new PlanError(at('sampleRate'), `must be between ${LIMITS.sampleRateMinHz} and ${LIMITS.sampleRateMaxHz} Hz, or null for the plan's rate`);
     }
   }
-  const writeA0 = o.writeA0 === undefined ? false : bool(o.writeA0, `${path}.writeA0`);
-  const order = readOrder(o.order, `${path}.order`, writeA0);
-  const feedbackSign = oneOf(o.feedbackSign, `${path}.feedbackSign`, ['as-computed', 'negated']) as BoardProfile['feedbackSign'];
-  const number = readNumberFormat(o.number, `${path}.number`);
-  const coefficientScale = o.coefficientScale === undefined ? 1 : num(o.coefficientScale, `${path}.coefficientScale`);
+  const writeA0 = o.writeA0 === undefined ? false : bool(o.writeA0, at('writeA0'));
+  const order = readOrder(o.order, at('order'), writeA0);
+  const feedbackSign = oneOf(o.feedbackSign, at('feedbackSign'), ['as-computed', 'negated']) as BoardProfile['feedbackSign'];
+  const number = readNumberFormat(o.number, at('number'));
+  const coefficientScale = o.coefficientScale === undefined ? 1 : num(o.coefficientScale, at('coefficientScale'));
   const log2 = Math.log2(Math.abs(coefficientScale));
   if (!(coefficientScale > 0) || !Number.isInteger(log2) || Math.abs(log2) > LIMITS.coefficientScaleLog2Max) {
     throw new PlanError(
-      `${path}.coefficientScale`,
+      at('coefficientScale'),
       `must be a power of two from 2^-${LIMITS.coefficientScaleLog2Max} to 2^${LIMITS.coefficientScaleLog2Max} (0.5 halves every coefficient), not ${coefficientScale}`,
     );
   }
-  const gain = o.gain === undefined ? 'separate' : (oneOf(o.gain, `${path}.gain`, ['separate', 'first-section']) as BoardProfile['gain']);
-  const delayUnit = o.delayUnit === undefined ? 'samples' : (oneOf(o.delayUnit, `${path}.delayUnit`, ['samples', 'ms']) as BoardProfile['delayUnit']);
+  const gain = o.gain === undefined ? 'separate' : (oneOf(o.gain, at('gain'), ['separate', 'first-section']) as BoardProfile['gain']);
+  const delayUnit = o.delayUnit === undefined ? 'samples' : (oneOf(o.delayUnit, at('delayUnit'), ['samples', 'ms']) as BoardProfile['delayUnit']);
   let maxDelaySamples: number | null = null;
   if (o.maxDelaySamples !== undefined && o.maxDelaySamples !== null) {
-    maxDelaySamples = wholeNumber(o.maxDelaySamples, `${path}.maxDelaySamples`, 0, LIMITS.maxDelaySamplesMax);
+    maxDelaySamples = wholeNumber(o.maxDelaySamples, at('maxDelaySamples'), 0, LIMITS.maxDelaySamplesMax);
   }
-  const sectionBudget = wholeNumber(o.sectionBudget, `${path}.sectionBudget`, 1, LIMITS.sectionBudgetMax);
+  const sectionBudget = wholeNumber(o.sectionBudget, at('sectionBudget'), 1, LIMITS.sectionBudgetMax);
   return { name, sampleRate, order, feedbackSign, writeA0, number, coefficientScale, gain, delayUnit, maxDelaySamples, sectionBudget };
 }
 
@@ -187,23 +188,24 @@ function readOrder(v: unknown, path: string, writeA0: boolean): CoefficientName[
 
 function readNumberFormat(v: unknown, path: string): NumberFormat {
   const o = object(v, path);
-  const kind = oneOf(o.kind, `${path}.kind`, ['decimal', 'fixed']);
+  const at = (key: string) => `${path}.${key}`;
+  const kind = oneOf(o.kind, at('kind'), ['decimal', 'fixed']);
   if (kind === 'decimal') {
     allowKeys(o, path, ['kind', 'significantDigits']);
     let digits: number | null = null;
     if (o.significantDigits !== undefined && o.significantDigits !== null) {
-      digits = wholeNumber(o.significantDigits, `${path}.significantDigits`, 1, LIMITS.significantDigitsMax);
+      digits = wholeNumber(o.significantDigits, at('significantDigits'), 1, LIMITS.significantDigitsMax);
     }
     return { kind: 'decimal', significantDigits: digits };
   }
   allowKeys(o, path, ['kind', 'integerBits', 'fractionBits', 'wordBits', 'notation']);
-  const wordBits = wholeNumber(o.wordBits, `${path}.wordBits`, LIMITS.wordBitsMin, LIMITS.wordBitsMax);
-  const integerBits = wholeNumber(o.integerBits, `${path}.integerBits`, 1, wordBits);
-  const fractionBits = wholeNumber(o.fractionBits, `${path}.fractionBits`, 0, wordBits - 1);
+  const wordBits = wholeNumber(o.wordBits, at('wordBits'), LIMITS.wordBitsMin, LIMITS.wordBitsMax);
+  const integerBits = wholeNumber(o.integerBits, at('integerBits'), 1, wordBits);
+  const fractionBits = wholeNumber(o.fractionBits, at('fractionBits'), 0, wordBits - 1);
   if (integerBits + fractionBits > wordBits) {
     throw new PlanError(path, `Q${integerBits}.${fractionBits} needs ${integerBits + fractionBits} bits, more than the ${wordBits}-bit word`);
   }
-  const notation = o.notation === undefined ? 'decimal' : (oneOf(o.notation, `${path}.notation`, ['decimal', 'hex']) as 'decimal' | 'hex');
+  const notation = o.notation === undefined ? 'decimal' : (oneOf(o.notation, at('notation'), ['decimal', 'hex']) as 'decimal' | 'hex');
   return { kind: 'fixed', integerBits, fractionBits, wordBits, notation };
 }
 
@@ -375,10 +377,26 @@ function oneOf(v: unknown, path: string, allowed: readonly string[]): string {
   return v;
 }
 
+/**
+ * How close (as a fraction of the sample rate) a designed frequency may come to 0 Hz and to
+ * Nyquist. Closer, the bilinear designs degenerate in double precision: at the last double below
+ * Nyquist a cookbook low-pass becomes (1 + 2z^-1 + z^-2) / (1 + 2z^-1 + z^-2), a double pole on
+ * the unit circle, and its response there is 0/0 (NaN); an edge at fs * 1e-8 has 1 + a1 + a2
+ * rounded to 0, so its response at 0 Hz is NaN. Both margins are far outside any audio use
+ * (2e-5 Hz and 0.005 Hz at 48 kHz) and leave a factor of 5 to 100 to where NaN appears.
+ */
+export const FREQUENCY_EDGE_MARGIN = { nyquist: 1e-9, zero: 1e-7 } as const;
+
 function frequency(v: unknown, path: string, fs: number): number {
   const f = num(v, path);
   if (!(f > 0)) throw new PlanError(path, 'must be > 0 Hz');
   if (!(f < fs / 2)) throw new PlanError(path, `must be below Nyquist (${fs / 2} Hz at ${fs} Hz)`);
+  if (f > fs / 2 - FREQUENCY_EDGE_MARGIN.nyquist * fs) {
+    throw new PlanError(path, `is too close to Nyquist (${fs / 2} Hz at ${fs} Hz) to design: keep it at least ${FREQUENCY_EDGE_MARGIN.nyquist * fs} Hz below`);
+  }
+  if (f < FREQUENCY_EDGE_MARGIN.zero * fs) {
+    throw new PlanError(path, `is too close to 0 Hz to design at ${fs} Hz: must be at least ${FREQUENCY_EDGE_MARGIN.zero * fs} Hz`);
+  }
   return f;
 }
 

@@ -1,0 +1,163 @@
+/**
+ * The export list's refusals and rules: the section budget (which output, by how many, nothing
+ * dropped), the board's sample rate (redesign, or refusal with the field path), the delay limit,
+ * and the gain folded into the first section.
+ */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { designPlan } from '../../src/design/chain';
+import { buildExportList } from '../../src/export/list';
+import { BUILT_IN_PROFILES, copyProfile, effectiveOrder, findBuiltInProfile } from '../../src/export/profiles';
+import { readPlanText } from '../../src/plan/read';
+import type { BoardProfile, Plan } from '../../src/plan/types';
+
+const ASSETS = fileURLToPath(new URL('../../assets/', import.meta.url));
+function demo(name = 'two-way-monitor.bqplan'): Plan {
+  const r = readPlanText(readFileSync(ASSETS + name, 'utf8'));
+  if (!r.ok) throw r.error;
+  return r.plan;
+}
+const float = (): BoardProfile => copyProfile(BUILT_IN_PROFILES[0].profile);
+
+describe('section budget', () => {
+  it('refuses each output over budget, saying which and by how many', () => {
+    const plan = demo();
+    // woofer: 2 input + 2 (LR4) + 8 peaking = 12 sections; tweeter: 2 + 2 = 4.
+    for (let i = 0; i < 8; i++) plan.outputs[0].bands.push({ id: `p${i}`, type: 'peaking', frequency: 100 + 50 * i, gainDb: -1, q: 2, enabled: true });
+    const p = float();
+    p.sectionBudget = 10;
+    const r = buildExportList(plan, p);
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.problems).toEqual([
+      {
+        code: 'budget',
+        where: 'woofer',
+        message: 'output "woofer" needs 12 sections, 2 more than the board\'s 10: remove or merge 2 band(s) or crossover section(s)',
+      },
+    ]);
+    p.sectionBudget = 3;
+    const both = buildExportList(plan, p);
+    expect(both.ok).toBe(false);
+    if (!both.ok) expect(both.problems.map((x) => [x.where, x.message.match(/(\d+) more/)![1]])).toEqual([['woofer', '9'], ['tweeter', '1']]);
+  });
+
+  it('exports every section when the output fits exactly (nothing dropped)', () => {
+    const plan = demo();
+    const p = float();
+    p.sectionBudget = 4;
+    const r = buildExportList(plan, p);
+    expect(r.ok).toBe(true);
+    if (r.ok) expect(r.list.outputs.map((o) => o.sections.length)).toEqual([4, 4]);
+  });
+
+  it('disabled bands take no section; a folded gain on an empty output takes one', () => {
+    const plan = demo();
+    plan.input.bands = [];
+    plan.outputs[1].highPass = null;
+    plan.outputs[1].gainDb = -6;
+    plan.outputs[0].bands.push({ id: 'off', type: 'peaking', frequency: 100, gainDb: 3, q: 1, enabled: false });
+    const p = float();
+    p.gain = 'first-section';
+    p.sectionBudget = 2;
+    const r = buildExportList(plan, p);
+    if (!r.ok) throw new Error(r.problems[0].message);
+    expect(r.list.outputs[0].sections.length).toBe(2);
+    const t = r.list.outputs[1];
+    expect(t.sections).toHaveLength(1);
+    expect(t.sections[0].from).toBe('tweeter/gain');
+    expect(t.sections[0].ideal.b0).toBe(Math.pow(10, -6 / 20));
+    expect(t.gain.written).toBeNull();
+  });
+});
+
+describe('gain handling', () => {
+  it('folds the gain (polarity included) into b0 b1 b2 of the first section only', () => {
+    const plan = demo();
+    plan.outputs[0].gainDb = -3;
+    plan.outputs[0].invert = true;
+    const p = float();
+    p.gain = 'first-section';
+    const r = buildExportList(plan, p);
+    if (!r.ok) throw new Error();
+    const d = designPlan(plan)[0];
+    const g = -Math.pow(10, -3 / 20);
+    const [s1, s2] = r.list.outputs[0].sections;
+    expect(s1.ideal).toEqual({ b0: d.sections[0].b0 * g, b1: d.sections[0].b1 * g, b2: d.sections[0].b2 * g, a1: d.sections[0].a1, a2: d.sections[0].a2 });
+    expect(s2.ideal.b0).toBe(d.sections[1].b0);
+  });
+});
+
+describe('sample rate of the board', () => {
+  it('redesigns at the profile rate: the same sections as the plan designed at that rate', () => {
+    const plan = demo();
+    const p = float();
+    p.sampleRate = 44100;
+    const r = buildExportList(plan, p);
+    if (!r.ok) throw new Error(r.problems[0].message);
+    expect(r.list.redesigned).toBe(true);
+    expect(r.list.sampleRate).toBe(44100);
+    const at441 = designPlan({ ...plan, sampleRate: 44100 });
+    r.list.outputs.forEach((o, i) => expect(o.sections.map((s) => s.ideal)).toEqual(at441[i].sections.map(({ from: _f, ...s }) => s)));
+    expect(r.list.notes[0]).toMatch(/redesigned at the board's 44100 Hz \(the plan is at 48000 Hz\)/);
+  });
+
+  it('refuses a band at or above the new Nyquist with its field path', () => {
+    const plan = demo();
+    plan.outputs[1].bands.push({ id: 'air', type: 'highShelf', frequency: 22500, gainDb: 2, q: 0.7, enabled: true });
+    const p = float();
+    p.sampleRate = 44100;
+    const r = buildExportList(plan, p);
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.problems[0].code).toBe('sample-rate');
+      expect(r.problems[0].where).toBe('outputs[1].bands[0].frequency');
+      expect(r.problems[0].message).toMatch(/board runs at 44100 Hz.*outputs\[1\]\.bands\[0\]\.frequency: must be below Nyquist \(22050 Hz/);
+    }
+  });
+
+  it('warns that raw bands keep their coefficients at another rate', () => {
+    const plan = demo();
+    plan.input.bands.push({ id: 'r', type: 'raw', frequency: 1000, enabled: true, coefficients: { b0: 1, b1: 0, b2: 0, a0: 1, a1: 0, a2: 0 } });
+    const p = float();
+    p.sampleRate = 96000;
+    const r = buildExportList(plan, p);
+    if (!r.ok) throw new Error();
+    expect(r.list.notes.join('\n')).toMatch(/raw bands keep their coefficients.*input\/r/);
+  });
+});
+
+describe('delay', () => {
+  it('rounds to whole samples at the board rate and refuses a delay over the board limit', () => {
+    const plan = demo();
+    plan.outputs[1].delayMs = 1.01; // 48.48 samples at 48 kHz
+    const p = float();
+    const r = buildExportList(plan, p);
+    if (!r.ok) throw new Error();
+    expect(r.list.outputs[1].delay).toEqual({ ms: 1.01, samples: 48, text: '48' });
+    p.maxDelaySamples = 40;
+    const refused = buildExportList(plan, p);
+    expect(refused.ok).toBe(false);
+    if (!refused.ok) expect(refused.problems[0]).toMatchObject({ code: 'delay', where: 'outputs[1].delayMs' });
+  });
+});
+
+describe('profiles', () => {
+  it('finds built-ins by key or name, never returning the shared object', () => {
+    const a = findBuiltInProfile('Q5.23 in 32-bit words')!;
+    expect(a).toEqual(findBuiltInProfile('q5.23'));
+    a.sectionBudget = 1;
+    expect(findBuiltInProfile('q5.23')!.sectionBudget).toBe(16);
+    expect(findBuiltInProfile('nope')).toBeNull();
+  });
+  it('puts a written a0 before a1 unless the order places it', () => {
+    const p = float();
+    p.writeA0 = true;
+    expect(effectiveOrder(p)).toEqual(['b0', 'b1', 'b2', 'a0', 'a1', 'a2']);
+    p.order = ['a1', 'a2', 'b0', 'b1', 'b2'];
+    expect(effectiveOrder(p)).toEqual(['a0', 'a1', 'a2', 'b0', 'b1', 'b2']);
+    p.order = ['b0', 'b1', 'b2', 'a1', 'a2', 'a0'];
+    expect(effectiveOrder(p)).toEqual(['b0', 'b1', 'b2', 'a1', 'a2', 'a0']);
+  });
+});
