@@ -1,0 +1,214 @@
+/**
+ * What the user's commands do: band nudges and drags, band and output management, and file
+ * commands through the host adapter. Components and keyboard shortcuts call these; each edit
+ * goes through the plan reader (src/ui/edits) and the document's undo history.
+ */
+import { BAND_PARAMETERS, DEFAULT_Q } from '../../../src/design/cookbook';
+import type { Band, Plan } from '../../../src/plan/types';
+import type { PlanDocument } from '../../../src/ipc';
+import * as edits from '../../../src/ui/edits';
+import { INPUT, type ChainRef } from '../../../src/ui/edits';
+import { roundFrequency, roundGain, roundQ } from '../../../src/ui/units';
+import type { Host } from '../host/host';
+import { documentState as doc } from '../state/document.svelte';
+import { viewState as view } from '../state/view.svelte';
+
+/** Applies an edit result; a refusal becomes the notice. Returns true when applied. */
+export function commit(result: edits.EditResult, coalesce?: string): boolean {
+  const reason = doc.apply(result, { coalesce });
+  if (reason !== null) {
+    view.notify('error', reason);
+    return false;
+  }
+  return true;
+}
+
+export function selectedChain(): ChainRef {
+  return view.chainIn(doc.plan);
+}
+
+export function selectedBand(): Band | null {
+  const id = view.bandIn(doc.plan);
+  if (!id) return null;
+  return edits.chainBands(doc.plan, selectedChain()).find((b) => b.id === id) ?? null;
+}
+
+/** Rounded, and kept just inside Nyquist so the plan reader accepts it. */
+function clampFrequency(plan: Plan, f: number): number {
+  const r = roundFrequency(Math.max(1, f));
+  return r < plan.sampleRate / 2 ? r : Math.floor(plan.sampleRate * 0.499);
+}
+
+/** Frequency, gain and Q of a band moved together (drag, wheel, nudge); fields a type lacks are left alone. */
+export function moveBand(chain: ChainRef, start: Band, change: { freqRatio?: number; deltaDb?: number; qRatio?: number }, coalesce?: string): boolean {
+  const p = BAND_PARAMETERS[start.type];
+  const patch: Partial<Band> = {};
+  if (change.freqRatio !== undefined && change.freqRatio !== 1 && start.type !== 'raw') patch.frequency = clampFrequency(doc.plan, start.frequency * change.freqRatio);
+  if (change.deltaDb !== undefined && change.deltaDb !== 0 && p.gain) patch.gainDb = Math.max(-60, Math.min(60, roundGain((start.gainDb ?? 0) + change.deltaDb)));
+  if (change.qRatio !== undefined && change.qRatio !== 1) {
+    if (p.q && (start.q !== undefined || !p.slope)) patch.q = Math.max(0.01, Math.min(1000, roundQ((start.q ?? DEFAULT_Q) * change.qRatio)));
+    else if (p.slope) patch.slope = Math.max(0.05, roundQ((start.slope ?? 1) * change.qRatio));
+  }
+  if (Object.keys(patch).length === 0) return false;
+  const r = edits.updateBand(doc.plan, chain, start.id, patch);
+  if (!r.ok && patch.slope !== undefined) return false; // a shelf slope past its limit: stay put quietly
+  return commit(r, coalesce);
+}
+
+// ---- band drag (one undo step per drag) -------------------------------------------------------
+
+let dragStart: { chain: ChainRef; band: Band } | null = null;
+
+export function beginBandDrag(bandId: string): void {
+  const chain = selectedChain();
+  const band = edits.chainBands(doc.plan, chain).find((b) => b.id === bandId);
+  view.selectBand(bandId);
+  if (!band) return;
+  dragStart = { chain, band };
+  doc.beginGesture();
+}
+
+export function dragBand(d: { freqRatio: number; deltaDb: number; qRatio: number }): void {
+  if (!dragStart) return;
+  const { chain, band } = dragStart;
+  const p = BAND_PARAMETERS[band.type];
+  const patch: Partial<Band> = {};
+  if (band.type !== 'raw') patch.frequency = clampFrequency(doc.plan, band.frequency * d.freqRatio);
+  if (p.gain) patch.gainDb = Math.max(-60, Math.min(60, roundGain((band.gainDb ?? 0) + d.deltaDb)));
+  if (d.qRatio !== 1 && p.q && (band.q !== undefined || !p.slope)) patch.q = Math.max(0.01, Math.min(1000, roundQ((band.q ?? DEFAULT_Q) * d.qRatio)));
+  const r = edits.updateBand(doc.plan, chain, band.id, patch);
+  if (r.ok) doc.apply(r);
+}
+
+export function endBandDrag(): void {
+  dragStart = null;
+  doc.endGesture();
+}
+
+// ---- keyboard nudges (issue 3: frequency 1/24 octave, gain 0.1 dB, Q 5 %; larger with Shift) ----
+
+export function nudgeSelected(what: 'frequency' | 'gain' | 'q', direction: 1 | -1, large: boolean): void {
+  const band = selectedBand();
+  if (!band) {
+    view.notify('info', 'Select a band first (click its number on the plot or in the list).');
+    return;
+  }
+  const chain = selectedChain();
+  const key = `nudge:${chain}/${band.id}/${what}`;
+  if (what === 'frequency') moveBand(chain, band, { freqRatio: Math.pow(2, (direction * (large ? 8 : 1)) / 24) }, key);
+  else if (what === 'gain') {
+    if (!BAND_PARAMETERS[band.type].gain) return view.notify('info', `A ${band.type} band has no gain.`);
+    moveBand(chain, band, { deltaDb: direction * (large ? 1 : 0.1) }, key);
+  } else moveBand(chain, band, { qRatio: Math.pow(large ? 1.25 : 1.05, direction) }, key);
+}
+
+// ---- bands and outputs ------------------------------------------------------------------------
+
+export function addBandToSelected(init?: Partial<Band>): void {
+  const chain = selectedChain();
+  const r = edits.addBand(doc.plan, chain, init);
+  if (commit(r) && r.ok && r.bandId) view.select(chain, r.bandId);
+}
+
+export function removeSelectedBand(): void {
+  const band = selectedBand();
+  if (!band) return;
+  const chain = selectedChain();
+  const bands = edits.chainBands(doc.plan, chain);
+  const i = bands.findIndex((b) => b.id === band.id);
+  if (commit(edits.removeBand(doc.plan, chain, band.id))) {
+    const rest = edits.chainBands(doc.plan, chain);
+    view.select(chain, rest[Math.min(i, rest.length - 1)]?.id ?? null);
+  }
+}
+
+export function addOutput(): void {
+  const r = edits.addOutput(doc.plan);
+  if (commit(r) && r.ok && r.outputId) view.select(r.outputId);
+}
+
+export function duplicateSelectedOutput(): void {
+  const chain = selectedChain();
+  if (chain === INPUT) return;
+  const r = edits.duplicateOutput(doc.plan, chain);
+  if (commit(r) && r.ok && r.outputId) view.select(r.outputId);
+}
+
+export function removeSelectedOutput(): void {
+  const chain = selectedChain();
+  if (chain === INPUT) return;
+  const i = doc.plan.outputs.findIndex((o) => o.id === chain);
+  if (commit(edits.removeOutput(doc.plan, chain))) view.select(doc.plan.outputs[Math.min(i, doc.plan.outputs.length - 1)].id);
+}
+
+// ---- files ------------------------------------------------------------------------------------
+
+let host: Host | null = null;
+
+export function useHost(h: Host): void {
+  host = h;
+}
+
+export function getHost(): Host {
+  if (!host) throw new Error('host adapter not set');
+  return host;
+}
+
+function loadDocument(d: PlanDocument, opts: { dirty?: boolean } = {}): void {
+  doc.load(d.plan, d.path, opts);
+  view.select(d.plan.outputs[0].id, null);
+  view.resetRange();
+}
+
+function confirmDiscard(): boolean {
+  if (!doc.dirty) return true;
+  return typeof window === 'undefined' || typeof window.confirm !== 'function' ? true : window.confirm('Discard the unsaved changes of this plan?');
+}
+
+export function newPlan(): void {
+  if (!confirmDiscard()) return;
+  loadDocument({ plan: edits.freshPlan(), path: null }, { dirty: false });
+  view.notify('info', 'New plan: one full-range output at 48 kHz.');
+}
+
+export async function openPlan(): Promise<void> {
+  if (!confirmDiscard()) return;
+  const r = await getHost().openPlan();
+  if (r.ok) {
+    loadDocument(r.value);
+    view.notify('info', `Opened ${doc.fileName ?? 'plan'}.`);
+  } else if (!('cancelled' in r)) view.notify('error', `Not opened, nothing changed. ${r.error}`, 15000);
+}
+
+export async function savePlan(as = false): Promise<boolean> {
+  const h = getHost();
+  const plan = doc.plan;
+  const r = as || !doc.path ? await h.savePlanAs(plan, doc.path) : await h.savePlan(plan, doc.path);
+  if (r.ok) {
+    doc.markSaved(r.value, plan); // edits made while the dialog was open stay unsaved
+    await h.discardRecovery();
+    view.notify('info', `Saved ${doc.fileName ?? r.value}.`);
+    return true;
+  }
+  if (!('cancelled' in r)) view.notify('error', `Not saved: ${r.error}`, 15000);
+  return false;
+}
+
+export async function revertPlan(): Promise<void> {
+  const path = doc.path;
+  if (!path) return view.notify('info', 'This plan has never been saved; nothing to revert to.');
+  if (doc.dirty && typeof window.confirm === 'function' && !window.confirm(`Discard the changes since ${doc.fileName} was saved?`)) return;
+  const r = await getHost().revertPlan(path);
+  if (r.ok) {
+    loadDocument(r.value);
+    view.notify('info', `Reverted to the saved ${doc.fileName}.`);
+  } else if (!('cancelled' in r)) view.notify('error', `Not reverted: ${r.error}`, 15000);
+}
+
+export function undo(): void {
+  if (!doc.undo()) view.notify('info', 'Nothing to undo.', 1500);
+}
+
+export function redo(): void {
+  if (!doc.redo()) view.notify('info', 'Nothing to redo.', 1500);
+}

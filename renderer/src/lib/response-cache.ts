@@ -1,0 +1,103 @@
+/**
+ * Responses of a plan on the plot grid, recomputing only what changed. Plans are immutable and
+ * edits share untouched parts, so object identity tells what changed: a band drag in one output
+ * replaces that output (and the plan), so only that output and the sum are recomputed; an
+ * input-chain edit replaces `plan.input`, so every output is.
+ */
+import { designBand } from '../../../src/design/cookbook';
+import { designInput, designOutput, type DesignedOutput, type SourcedSection } from '../../../src/design/chain';
+import { cascadeWithGainDelay, outputResponse, sumResponses, type Response } from '../../../src/response/chain-response';
+import { normalizedOmega } from '../../../src/response/kernel';
+import type { Band, Output, Plan } from '../../../src/plan/types';
+
+export interface OutputCurve {
+  output: Output;
+  designed: DesignedOutput;
+  response: Response;
+}
+
+export interface PlanFrame {
+  plan: Plan;
+  frequencies: Float64Array;
+  outputs: OutputCurve[];
+  /** Sum of the unmuted (and, when any is soloed, soloed) outputs. */
+  sum: Response;
+  /** Ids summed. */
+  summed: readonly string[];
+  /** The input chain alone (unity gain, no delay). */
+  input: Response;
+}
+
+export interface CacheStats {
+  outputsComputed: number;
+  inputComputed: number;
+  sumsComputed: number;
+  bandsComputed: number;
+}
+
+export class ResponseCache {
+  #grid: Float64Array | null = null;
+  #omega: Float64Array | null = null;
+  #sampleRate = 0;
+  #inputKey: Plan['input'] | null = null;
+  #inputSections: SourcedSection[] = [];
+  #inputResponse: Response | null = null;
+  #outputs = new WeakMap<Output, { inputSections: SourcedSection[]; curve: OutputCurve }>();
+  #bands = new WeakMap<Band, Response>();
+  #lastSum: { parts: Response[]; sum: Response } | null = null;
+  readonly stats: CacheStats = { outputsComputed: 0, inputComputed: 0, sumsComputed: 0, bandsComputed: 0 };
+
+  #setGrid(grid: Float64Array, sampleRate: number): void {
+    if (grid === this.#grid && sampleRate === this.#sampleRate) return;
+    this.#grid = grid;
+    this.#sampleRate = sampleRate;
+    this.#omega = normalizedOmega(grid, sampleRate);
+    this.#inputKey = null;
+    this.#outputs = new WeakMap();
+    this.#bands = new WeakMap();
+    this.#lastSum = null;
+  }
+
+  frame(plan: Plan, grid: Float64Array, solo: readonly string[]): PlanFrame {
+    this.#setGrid(grid, plan.sampleRate);
+    const omega = this.#omega!;
+    const fs = plan.sampleRate;
+    if (this.#inputKey !== plan.input) {
+      this.#inputKey = plan.input;
+      this.#inputSections = designInput(plan);
+      this.#inputResponse = cascadeWithGainDelay(this.#inputSections, 1, 0, omega, fs);
+      this.stats.inputComputed++;
+    }
+    const outputs = plan.outputs.map((o) => {
+      const hit = this.#outputs.get(o);
+      if (hit && hit.inputSections === this.#inputSections) return hit.curve;
+      const designed = designOutput(plan, o, this.#inputSections);
+      const curve: OutputCurve = { output: o, designed, response: outputResponse(designed, omega, fs) };
+      this.#outputs.set(o, { inputSections: this.#inputSections, curve });
+      this.stats.outputsComputed++;
+      return curve;
+    });
+    const soloed = solo.filter((s) => plan.outputs.some((o) => o.id === s));
+    const summedCurves = outputs.filter((c) => !c.output.mute && (soloed.length === 0 || soloed.includes(c.output.id)));
+    const parts = summedCurves.map((c) => c.response);
+    let sum: Response;
+    const last = this.#lastSum;
+    if (last && last.parts.length === parts.length && last.parts.every((p, i) => p === parts[i])) sum = last.sum;
+    else {
+      sum = sumResponses(parts, omega, fs);
+      this.#lastSum = { parts, sum };
+      this.stats.sumsComputed++;
+    }
+    return { plan, frequencies: grid, outputs, sum, summed: summedCurves.map((c) => c.output.id), input: this.#inputResponse! };
+  }
+
+  /** One band's own response (unity gain, no delay) on the current grid. */
+  band(band: Band): Response {
+    const hit = this.#bands.get(band);
+    if (hit) return hit;
+    const r = cascadeWithGainDelay(designBand(band, this.#sampleRate), 1, 0, this.#omega!, this.#sampleRate);
+    this.#bands.set(band, r);
+    this.stats.bandsComputed++;
+    return r;
+  }
+}

@@ -1,0 +1,71 @@
+/**
+ * A read-only window into the running app for the end-to-end tests and the UI benchmark:
+ * the current plan, what the plots hold, where the band handles are on the page, and how long
+ * drag frames took (input event to the frame after the plots were updated and painted).
+ */
+import type { Plan } from '../../../src/plan/types';
+import type { CacheStats } from './response-cache';
+
+export interface PlottedCurve {
+  id: string;
+  label: string;
+  color: string;
+  width: number;
+  y: number[];
+}
+
+export interface Plotted {
+  frequencies: number[];
+  range: [number, number];
+  magnitude: PlottedCurve[];
+  phase: PlottedCurve[];
+  groupDelay: PlottedCurve[];
+  phaseMode: 'wrapped' | 'unwrapped';
+}
+
+export interface TestHook {
+  plan: () => Plan;
+  dirty: () => boolean;
+  plotted: () => Plotted | null;
+  /** Page (client) coordinates of a band handle of the selected chain. */
+  handle: (bandId: string) => { x: number; y: number } | null;
+  cacheStats: () => CacheStats | null;
+  /** Milliseconds per drag frame, appended as frames are painted. */
+  frameTimes: number[];
+  /** Count of plot updates (each redraws the three plots). */
+  plotUpdates: number;
+}
+
+declare global {
+  interface Window {
+    __biquadrant?: TestHook;
+  }
+}
+
+export const testHook: TestHook = {
+  plan: () => {
+    throw new Error('app not started');
+  },
+  dirty: () => false,
+  plotted: () => null,
+  handle: () => null,
+  cacheStats: () => null,
+  frameTimes: [],
+  plotUpdates: 0,
+};
+
+export function installTestHook(): void {
+  if (typeof window !== 'undefined') window.__biquadrant = testHook;
+}
+
+/** Records the time from an input event to the frame after it was drawn (after paint). */
+export function recordFrame(inputTime: number): void {
+  requestAnimationFrame(() => {
+    const ch = new MessageChannel();
+    ch.port1.onmessage = () => {
+      testHook.frameTimes.push(performance.now() - inputTime);
+      ch.port1.close();
+    };
+    ch.port2.postMessage(0);
+  });
+}

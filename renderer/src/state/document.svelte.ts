@@ -1,0 +1,148 @@
+/**
+ * The open document: the plan, where it lives, whether it changed since it was saved, and the
+ * undo history. Plans are never mutated: every edit replaces the plan with a new object that
+ * shares what it did not touch, so the history is a list of references and "dirty" is an
+ * identity check against the last saved plan.
+ */
+import type { Plan } from '../../../src/plan/types';
+import type { EditResult } from '../../../src/ui/edits';
+import { freshPlan } from '../../../src/ui/edits';
+
+const HISTORY_MAX = 300;
+/** Edits with the same coalescing key closer than this become one undo step (keyboard nudges, wheel). */
+const COALESCE_MS = 900;
+
+export class DocumentState {
+  #plan = $state.raw<Plan>(freshPlan());
+  #path = $state<string | null>(null);
+  #saved = $state.raw<Plan | null>(null);
+  #undo = $state.raw<Plan[]>([]);
+  #redo = $state.raw<Plan[]>([]);
+  /** The plan when the current gesture (a drag) began; null outside a gesture. */
+  #gestureStart: Plan | null = null;
+  #dragging = $state(false);
+  #coalesce: { key: string; at: number } | null = null;
+  /** Bumped on every change, for autosave's idle timer. */
+  #revision = $state(0);
+
+  get plan(): Plan {
+    return this.#plan;
+  }
+  get path(): string | null {
+    return this.#path;
+  }
+  get dirty(): boolean {
+    return this.#plan !== this.#saved;
+  }
+  get canUndo(): boolean {
+    return this.#undo.length > 0 || this.#gestureStart !== null;
+  }
+  get canRedo(): boolean {
+    return this.#redo.length > 0;
+  }
+  get dragging(): boolean {
+    return this.#dragging;
+  }
+  get revision(): number {
+    return this.#revision;
+  }
+  get title(): string {
+    return this.#plan.name || 'Untitled plan';
+  }
+  get fileName(): string | null {
+    return this.#path ? (this.#path.split(/[\\/]/).pop() ?? this.#path) : null;
+  }
+
+  /** Replaces the document (open, new, revert, recovery) and clears the history. */
+  load(plan: Plan, path: string | null, opts: { dirty?: boolean } = {}): void {
+    this.#endGestureSilently();
+    this.#plan = plan;
+    this.#path = path;
+    this.#saved = opts.dirty ? null : plan;
+    this.#undo = [];
+    this.#redo = [];
+    this.#coalesce = null;
+    this.#revision++;
+  }
+
+  /** Records `plan` (by default the current one) as saved at `path`. */
+  markSaved(path: string, plan: Plan = this.#plan): void {
+    this.#path = path;
+    this.#saved = plan;
+  }
+
+  /**
+   * Applies a checked edit. Returns the refusal reason, or null when applied. Inside a gesture
+   * the plan changes but the history waits for `endGesture`.
+   */
+  apply(result: EditResult, opts: { coalesce?: string } = {}): string | null {
+    if (!result.ok) return result.reason;
+    if (result.plan === this.#plan) return null;
+    if (this.#gestureStart === null) {
+      const now = Date.now();
+      const merge = opts.coalesce !== undefined && this.#coalesce?.key === opts.coalesce && now - this.#coalesce.at < COALESCE_MS;
+      if (!merge) this.#push(this.#plan);
+      this.#coalesce = opts.coalesce !== undefined ? { key: opts.coalesce, at: now } : null;
+      this.#redo = [];
+    }
+    this.#plan = result.plan;
+    this.#revision++;
+    return null;
+  }
+
+  beginGesture(): void {
+    if (this.#gestureStart !== null) return;
+    this.#gestureStart = this.#plan;
+    this.#dragging = true;
+  }
+
+  /** Ends a gesture: one undo step for the whole drag (none if nothing changed). */
+  endGesture(): void {
+    const start = this.#gestureStart;
+    if (start === null) return;
+    this.#gestureStart = null;
+    this.#dragging = false;
+    this.#coalesce = null;
+    if (start !== this.#plan) {
+      this.#push(start);
+      this.#redo = [];
+    }
+  }
+
+  #endGestureSilently(): void {
+    this.#gestureStart = null;
+    this.#dragging = false;
+  }
+
+  #push(plan: Plan): void {
+    const u = this.#undo.length >= HISTORY_MAX ? this.#undo.slice(1) : this.#undo.slice();
+    u.push(plan);
+    this.#undo = u;
+  }
+
+  undo(): boolean {
+    this.endGesture();
+    if (this.#undo.length === 0) return false;
+    const prev = this.#undo[this.#undo.length - 1];
+    this.#undo = this.#undo.slice(0, -1);
+    this.#redo = [...this.#redo, this.#plan];
+    this.#plan = prev;
+    this.#coalesce = null;
+    this.#revision++;
+    return true;
+  }
+
+  redo(): boolean {
+    this.endGesture();
+    if (this.#redo.length === 0) return false;
+    const next = this.#redo[this.#redo.length - 1];
+    this.#redo = this.#redo.slice(0, -1);
+    this.#push(this.#plan);
+    this.#plan = next;
+    this.#coalesce = null;
+    this.#revision++;
+    return true;
+  }
+}
+
+export const documentState = new DocumentState();

@@ -1,0 +1,250 @@
+/**
+ * Edits of a plan as pure functions: each returns a new plan that shares every untouched part
+ * with the old one (so a cache keyed on object identity knows what changed), or a reason.
+ * Every result goes through the plan reader (`readPlanValue`), so the app never holds a plan
+ * the file format would refuse.
+ */
+import { qFromBandwidthOctaves, DEFAULT_Q } from '../design/cookbook';
+import { readPlanValue } from '../plan/read';
+import {
+  LIMITS,
+  PLAN_FORMAT,
+  PLAN_VERSION,
+  type Band,
+  type BandType,
+  type Crossover,
+  type EdgeKind,
+  type Output,
+  type Plan,
+} from '../plan/types';
+import { formatFrequency } from './units';
+
+export type EditResult = { ok: true; plan: Plan } | { ok: false; reason: string };
+
+/** "input" or an output id. */
+export type ChainRef = string;
+export const INPUT: ChainRef = 'input';
+
+/** Checks a whole edited plan with the reader; keeps the edited object (its structural sharing). */
+export function validated(plan: Plan): EditResult {
+  const r = readPlanValue(plan);
+  if (r.ok) return { ok: true, plan };
+  return { ok: false, reason: r.error.message };
+}
+
+export function freshPlan(): Plan {
+  return {
+    format: PLAN_FORMAT,
+    version: PLAN_VERSION,
+    name: 'Untitled plan',
+    sampleRate: 48000,
+    input: { bands: [] },
+    outputs: [
+      { id: 'full', name: 'Full range', gainDb: 0, delayMs: 0, invert: false, mute: false, highPass: null, lowPass: null, bands: [] },
+    ],
+  };
+}
+
+export function chainBands(plan: Plan, chain: ChainRef): Band[] {
+  if (chain === INPUT) return plan.input.bands;
+  return plan.outputs.find((o) => o.id === chain)?.bands ?? [];
+}
+
+function withChainBands(plan: Plan, chain: ChainRef, bands: Band[]): Plan {
+  if (chain === INPUT) return { ...plan, input: { ...plan.input, bands } };
+  return { ...plan, outputs: plan.outputs.map((o) => (o.id === chain ? { ...o, bands } : o)) };
+}
+
+/** Replaces fields of one band (undefined in the patch removes the field). */
+export function updateBand(plan: Plan, chain: ChainRef, bandId: string, patch: Partial<Band>): EditResult {
+  const bands = chainBands(plan, chain);
+  const i = bands.findIndex((b) => b.id === bandId);
+  if (i < 0) return { ok: false, reason: `no band ${bandId} in ${chain}` };
+  const next: Band = { ...bands[i], ...patch };
+  for (const k of Object.keys(next) as (keyof Band)[]) if (next[k] === undefined) delete next[k];
+  return validated(withChainBands(plan, chain, bands.map((b, j) => (j === i ? next : b))));
+}
+
+/** Sets a band's Q from a bandwidth in octaves at its own frequency (cookbook BW form). */
+export function setBandwidth(plan: Plan, chain: ChainRef, bandId: string, octaves: number): EditResult {
+  const band = chainBands(plan, chain).find((b) => b.id === bandId);
+  if (!band) return { ok: false, reason: `no band ${bandId}` };
+  const q = qFromBandwidthOctaves(octaves, band.frequency, plan.sampleRate);
+  if (!(q > 0) || !Number.isFinite(q)) return { ok: false, reason: 'that bandwidth gives no usable Q at this frequency' };
+  return updateBand(plan, chain, bandId, { q, slope: undefined });
+}
+
+/** A band id not used in the chain: b1, b2, ... */
+export function nextBandId(bands: readonly Band[]): string {
+  const used = new Set(bands.map((b) => b.id));
+  for (let i = 1; ; i++) if (!used.has(`b${i}`)) return `b${i}`;
+}
+
+/** Sensible fields for a band type (what a new band, or a type change, starts from). */
+export function bandForType(prev: Band, type: BandType): Band {
+  const b: Band = { id: prev.id, type, frequency: prev.frequency, enabled: prev.enabled };
+  if (type === 'raw') {
+    b.coefficients = prev.coefficients ?? { b0: 1, b1: 0, b2: 0, a0: 1, a1: 0, a2: 0 };
+    return b;
+  }
+  if (type === 'peaking' || type === 'lowShelf' || type === 'highShelf') b.gainDb = prev.gainDb ?? 0;
+  if (type === 'lowShelf' || type === 'highShelf') {
+    if (prev.q !== undefined && prev.type !== 'peaking') b.q = prev.q;
+    else b.slope = prev.slope ?? 1;
+  } else if (!['lowPass1', 'highPass1', 'allPass1'].includes(type)) {
+    b.q = prev.q ?? (type === 'peaking' ? 1 : DEFAULT_Q);
+  }
+  return b;
+}
+
+export function setBandType(plan: Plan, chain: ChainRef, bandId: string, type: BandType): EditResult {
+  const bands = chainBands(plan, chain);
+  const i = bands.findIndex((b) => b.id === bandId);
+  if (i < 0) return { ok: false, reason: `no band ${bandId}` };
+  const next = bandForType(bands[i], type);
+  return validated(withChainBands(plan, chain, bands.map((b, j) => (j === i ? next : b))));
+}
+
+export function addBand(plan: Plan, chain: ChainRef, init?: Partial<Band>): EditResult & { bandId?: string } {
+  const bands = chainBands(plan, chain);
+  if (bands.length >= LIMITS.bandsMax) return { ok: false, reason: `a chain holds at most ${LIMITS.bandsMax} bands` };
+  const id = nextBandId(bands);
+  const frequency = Math.min(init?.frequency ?? 1000, plan.sampleRate * 0.45);
+  const band: Band = { id, type: 'peaking', frequency, gainDb: 0, q: 1, enabled: true, ...init };
+  band.id = id;
+  band.frequency = frequency;
+  const r = validated(withChainBands(plan, chain, [...bands, band]));
+  return r.ok ? { ...r, bandId: id } : r;
+}
+
+export function removeBand(plan: Plan, chain: ChainRef, bandId: string): EditResult {
+  const bands = chainBands(plan, chain);
+  if (!bands.some((b) => b.id === bandId)) return { ok: false, reason: `no band ${bandId}` };
+  return validated(withChainBands(plan, chain, bands.filter((b) => b.id !== bandId)));
+}
+
+export function updateOutput(plan: Plan, outputId: string, patch: Partial<Omit<Output, 'id' | 'bands'>>): EditResult {
+  if (!plan.outputs.some((o) => o.id === outputId)) return { ok: false, reason: `no output ${outputId}` };
+  return validated({ ...plan, outputs: plan.outputs.map((o) => (o.id === outputId ? { ...o, ...patch } : o)) });
+}
+
+/** An output id not used in the plan, from a name ("Mid high" -> "mid-high", "mid-high-2"). */
+export function freshOutputId(plan: Plan, name: string): string {
+  const base = (name.toLowerCase().replace(/[^a-z0-9_-]+/g, '-').replace(/^-+|-+$/g, '') || 'out').slice(0, 28);
+  const used = new Set(plan.outputs.map((o) => o.id));
+  if (!used.has(base)) return base;
+  for (let i = 2; ; i++) if (!used.has(`${base}-${i}`)) return `${base}-${i}`;
+}
+
+export function addOutput(plan: Plan): EditResult & { outputId?: string } {
+  if (plan.outputs.length >= LIMITS.outputsMax) return { ok: false, reason: `a plan holds at most ${LIMITS.outputsMax} outputs` };
+  const name = `Output ${plan.outputs.length + 1}`;
+  const id = freshOutputId(plan, name);
+  const out: Output = { id, name, gainDb: 0, delayMs: 0, invert: false, mute: false, highPass: null, lowPass: null, bands: [] };
+  const r = validated({ ...plan, outputs: [...plan.outputs, out] });
+  return r.ok ? { ...r, outputId: id } : r;
+}
+
+export function duplicateOutput(plan: Plan, outputId: string): EditResult & { outputId?: string } {
+  if (plan.outputs.length >= LIMITS.outputsMax) return { ok: false, reason: `a plan holds at most ${LIMITS.outputsMax} outputs` };
+  const i = plan.outputs.findIndex((o) => o.id === outputId);
+  if (i < 0) return { ok: false, reason: `no output ${outputId}` };
+  const src = plan.outputs[i];
+  const name = `${src.name} copy`.slice(0, LIMITS.nameMaxLength);
+  const id = freshOutputId(plan, `${src.id}-copy`);
+  const copy: Output = JSON.parse(JSON.stringify({ ...src, id, name })) as Output;
+  const outputs = [...plan.outputs.slice(0, i + 1), copy, ...plan.outputs.slice(i + 1)];
+  const r = validated({ ...plan, outputs });
+  return r.ok ? { ...r, outputId: id } : r;
+}
+
+export function removeOutput(plan: Plan, outputId: string): EditResult {
+  if (plan.outputs.length <= LIMITS.outputsMin) return { ok: false, reason: 'a plan keeps at least one output' };
+  if (!plan.outputs.some((o) => o.id === outputId)) return { ok: false, reason: `no output ${outputId}` };
+  return validated({ ...plan, outputs: plan.outputs.filter((o) => o.id !== outputId) });
+}
+
+/** Moves an output up (-1) or down (+1) in the list. */
+export function moveOutput(plan: Plan, outputId: string, by: -1 | 1): EditResult {
+  const i = plan.outputs.findIndex((o) => o.id === outputId);
+  const j = i + by;
+  if (i < 0 || j < 0 || j >= plan.outputs.length) return { ok: false, reason: 'cannot move further' };
+  const outputs = [...plan.outputs];
+  [outputs[i], outputs[j]] = [outputs[j], outputs[i]];
+  return validated({ ...plan, outputs });
+}
+
+/** Sets or clears (null) an output's edge; bessel edges get a normalization, others lose it. */
+export function setEdge(plan: Plan, outputId: string, kind: EdgeKind, edge: Crossover | null): EditResult {
+  let e = edge;
+  if (e) {
+    e = { family: e.family, order: e.order, frequency: e.frequency };
+    if (e.family === 'bessel') e.normalization = edge?.normalization ?? 'phase';
+    if (e.family === 'linkwitz-riley' && !LIMITS.linkwitzRileyOrders.includes(e.order)) {
+      // Nearest allowed order rather than a refusal when the family changes under an odd order.
+      e.order = Math.min(8, Math.max(2, 2 * Math.round(e.order / 2)));
+    }
+  }
+  return updateOutput(plan, outputId, kind === 'highPass' ? { highPass: e } : { lowPass: e });
+}
+
+/**
+ * The neighbouring output across this output's edge: for a low-pass edge, the output just above
+ * in frequency (the one whose high-pass is nearest), for a high-pass edge the one just below.
+ * Falls back to the next (low-pass) or previous (high-pass) output in the list.
+ */
+export function neighbourAcross(plan: Plan, outputId: string, kind: EdgeKind): Output | null {
+  const me = plan.outputs.find((o) => o.id === outputId);
+  const edge = me && (kind === 'lowPass' ? me.lowPass : me.highPass);
+  if (!me || !edge) return null;
+  const others = plan.outputs.filter((o) => o !== me);
+  const octaves = (a: number, b: number) => Math.abs(Math.log2(a / b));
+  const candidates = others
+    .map((o) => ({ o, e: kind === 'lowPass' ? o.highPass : o.lowPass }))
+    .filter((c) => c.e !== null)
+    .sort((a, b) => octaves(a.e!.frequency, edge.frequency) - octaves(b.e!.frequency, edge.frequency));
+  if (candidates.length > 0 && octaves(candidates[0].e!.frequency, edge.frequency) < 2) return candidates[0].o;
+  const i = plan.outputs.indexOf(me);
+  const j = kind === 'lowPass' ? i + 1 : i - 1;
+  return plan.outputs[j] ?? null;
+}
+
+/** Gives the neighbour across this edge the complementary edge (same family, order, frequency). */
+export function matchNeighbourEdge(plan: Plan, outputId: string, kind: EdgeKind): EditResult & { neighbourId?: string } {
+  const me = plan.outputs.find((o) => o.id === outputId);
+  const edge = me && (kind === 'lowPass' ? me.lowPass : me.highPass);
+  if (!me || !edge) return { ok: false, reason: 'set this edge first' };
+  const n = neighbourAcross(plan, outputId, kind);
+  if (!n) return { ok: false, reason: `no output ${kind === 'lowPass' ? 'after' : 'before'} this one to take the other side` };
+  const r = setEdge(plan, n.id, kind === 'lowPass' ? 'highPass' : 'lowPass', { ...edge });
+  return r.ok ? { ...r, neighbourId: n.id } : r;
+}
+
+/**
+ * Changes the sample rate; every section is redesigned from the plan. Refused, naming the first
+ * offenders, when a band or edge frequency does not fit below the new Nyquist.
+ */
+export function setSampleRate(plan: Plan, sampleRateHz: number): EditResult {
+  if (!(sampleRateHz >= LIMITS.sampleRateMinHz && sampleRateHz <= LIMITS.sampleRateMaxHz)) {
+    return { ok: false, reason: `sample rate must be ${LIMITS.sampleRateMinHz} to ${LIMITS.sampleRateMaxHz} Hz` };
+  }
+  const nyq = sampleRateHz / 2;
+  const misfits: string[] = [];
+  const checkBands = (bands: Band[], where: string) => {
+    for (const b of bands) if (b.type !== 'raw' && !(b.frequency < nyq)) misfits.push(`${where} band ${b.id} at ${formatFrequency(b.frequency)}`);
+  };
+  checkBands(plan.input.bands, 'input chain');
+  for (const o of plan.outputs) {
+    if (o.highPass && !(o.highPass.frequency < nyq)) misfits.push(`${o.name} high-pass at ${formatFrequency(o.highPass.frequency)}`);
+    if (o.lowPass && !(o.lowPass.frequency < nyq)) misfits.push(`${o.name} low-pass at ${formatFrequency(o.lowPass.frequency)}`);
+    checkBands(o.bands, o.name);
+  }
+  if (misfits.length > 0) {
+    const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';
+    return {
+      ok: false,
+      reason: `${formatFrequency(sampleRateHz)} refused: Nyquist would be ${formatFrequency(nyq)}, below ${misfits.slice(0, 3).join(', ')}${more}. Lower those first.`,
+    };
+  }
+  return validated({ ...plan, sampleRate: sampleRateHz });
+}

@@ -1,0 +1,35 @@
+// Builds the web renderer (unless told not to) and serves dist-web on 127.0.0.1 with Vite's
+// preview server on a free port; launches Debian's Chromium through playwright-core.
+import { fileURLToPath } from 'node:url';
+import { build, preview } from 'vite';
+import { chromium } from 'playwright-core';
+
+export const root = fileURLToPath(new URL('../..', import.meta.url));
+const configFile = fileURLToPath(new URL('../../vite.web.config.ts', import.meta.url));
+
+export async function buildWeb() {
+  await build({ configFile, logLevel: 'warn' });
+}
+
+/** Starts the preview server; returns { url, close }. */
+export async function serveWeb() {
+  const server = await preview({ configFile, logLevel: 'warn', preview: { host: '127.0.0.1', port: 0, strictPort: false } });
+  const address = server.httpServer.address();
+  const url = `http://127.0.0.1:${address.port}/`;
+  return { url, close: () => new Promise((r) => server.httpServer.close(() => r())) };
+}
+
+export const CHROMIUM_ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
+
+export async function launchBrowser() {
+  return chromium.launch({ executablePath: process.env.CHROMIUM || '/usr/bin/chromium', args: CHROMIUM_ARGS, headless: true });
+}
