@@ -124,17 +124,27 @@ function recentFile(): string {
   return join(app.getPath('userData'), 'recent.json');
 }
 
+let recentSaving: Promise<void> = Promise.resolve();
+
+/** Saves the list as it is when the write runs; writes are chained so an older list never lands last. */
+function persistRecent(): Promise<void> {
+  recentSaving = recentSaving
+    .then(() => saveRecent(recentFile(), recent))
+    .catch((e: unknown) => console.warn('recent list not saved:', e));
+  return recentSaving;
+}
+
 async function rememberRecent(path: string): Promise<void> {
   recent = addRecent(recent, path, { caseInsensitive: CASE_INSENSITIVE });
   app.addRecentDocument(path);
   rebuildMenu();
-  await saveRecent(recentFile(), recent).catch((e: unknown) => console.warn('recent list not saved:', e));
+  await persistRecent();
 }
 
 async function forgetRecent(path: string): Promise<void> {
   recent = removeRecent(recent, path, { caseInsensitive: CASE_INSENSITIVE });
   rebuildMenu();
-  await saveRecent(recentFile(), recent).catch((e: unknown) => console.warn('recent list not saved:', e));
+  await persistRecent();
 }
 
 function sendCommand(state: WindowState, command: MenuCommand): void {
@@ -161,7 +171,7 @@ function rebuildMenu(): void {
         recent = [];
         app.clearRecentDocuments();
         rebuildMenu();
-        void saveRecent(recentFile(), recent).catch(() => undefined);
+        void persistRecent();
       },
     },
     { platform: process.platform, recent, developer: !app.isPackaged },

@@ -4,7 +4,8 @@
  * Plain Node. The list lives in `<userData>/recent.json` as `{ "recent": ["/abs/path.bqplan", ...] }`;
  * a missing or damaged file is an empty list (the list is a convenience, never worth an error).
  */
-import { isAbsolute, normalize } from 'node:path';
+import { mkdir } from 'node:fs/promises';
+import { dirname, isAbsolute, normalize } from 'node:path';
 import { realFileSystem, writeFileAtomic, type FileSystem } from './files';
 
 export const RECENT_MAX = 10;
@@ -69,5 +70,6 @@ export async function loadRecent(file: string, options: RecentOptions = {}, fs: 
 }
 
 export async function saveRecent(file: string, list: readonly string[], fs: FileSystem = realFileSystem): Promise<void> {
+  await mkdir(dirname(file), { recursive: true });
   await writeFileAtomic(file, JSON.stringify({ recent: list }, null, 2) + '\n', { backup: false }, fs);
 }

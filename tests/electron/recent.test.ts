@@ -68,3 +68,16 @@ describe('stored list', () => {
     expect(sanitizeRecent(null, cs)).toEqual([]);
   });
 });
+
+describe('first save', () => {
+  it('creates the user data folder when it does not exist yet', async () => {
+    const base = await mkdtemp(join(tmpdir(), 'bq-recent-new-'));
+    try {
+      const file = join(base, 'not', 'yet', 'recent.json');
+      await saveRecent(file, ['/p/a.bqplan']);
+      expect(await loadRecent(file, cs)).toEqual(['/p/a.bqplan']);
+    } finally {
+      await rm(base, { recursive: true, force: true });
+    }
+  });
+});
