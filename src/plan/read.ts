@@ -380,12 +380,13 @@ function oneOf(v: unknown, path: string, allowed: readonly string[]): string {
 /**
  * How close (as a fraction of the sample rate) a designed frequency may come to 0 Hz and to
  * Nyquist. Closer, the bilinear designs degenerate in double precision: at the last double below
- * Nyquist a cookbook low-pass becomes (1 + 2z^-1 + z^-2) / (1 + 2z^-1 + z^-2), a double pole on
- * the unit circle, and its response there is 0/0 (NaN); an edge at fs * 1e-8 has 1 + a1 + a2
- * rounded to 0, so its response at 0 Hz is NaN. Both margins are far outside any audio use
- * (2e-5 Hz and 0.005 Hz at 48 kHz) and leave a factor of 5 to 100 to where NaN appears.
+ * Nyquist a cookbook low-pass rounds to (1 + 2z^-1 + z^-2) / (1 + 2z^-1 + z^-2), a double pole on
+ * the unit circle whose response there is 0/0 (NaN); within 1e-8 fs of either end, edges and
+ * high-Q bands get a pole radius above 1 (unstable) from rounding alone; an edge at 1e-8 fs has
+ * 1 + a1 + a2 rounded to 0 and a NaN response at 0 Hz. One millionth of the sample rate
+ * (0.048 Hz at 48 kHz) is far outside any audio use and leaves a factor of 100 to those limits.
  */
-export const FREQUENCY_EDGE_MARGIN = { nyquist: 1e-9, zero: 1e-7 } as const;
+export const FREQUENCY_EDGE_MARGIN = { nyquist: 1e-6, zero: 1e-6 } as const;
 
 function frequency(v: unknown, path: string, fs: number): number {
   const f = num(v, path);
