@@ -337,6 +337,7 @@ async function loadFor(state: WindowState, path: string): Promise<HostResult<Pla
     return { ok: false, error: read.error };
   }
   state.path = path;
+  state.name = read.value.name;
   grant(state, path);
   refreshTitle(state);
   await rememberRecent(path);
