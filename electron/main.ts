@@ -116,8 +116,10 @@ function windowShowing(path: string): WindowState | undefined {
 function refreshTitle(state: WindowState): void {
   if (state.win.isDestroyed()) return;
   state.win.setTitle(windowTitle({ name: state.name, path: state.path, dirty: state.dirty }));
-  state.win.setDocumentEdited(state.dirty);
-  state.win.setRepresentedFilename(state.path ?? '');
+  if (process.platform === 'darwin') {
+    state.win.setDocumentEdited(state.dirty);
+    state.win.setRepresentedFilename(state.path ?? '');
+  }
 }
 
 function recentFile(): string {
@@ -361,7 +363,6 @@ async function savePlanTo(state: WindowState, plan: Plan, path: string): Promise
 }
 
 function safeFileStem(name: string): string {
-  // eslint-disable-next-line no-control-regex
   const stem = name.replace(/[\u0000-\u001f<>:"/\\|?*]+/g, ' ').replace(/\s+/g, ' ').trim().slice(0, 80);
   return stem || 'plan';
 }

@@ -25,7 +25,6 @@ function refuse(error: string): { ok: false; error: string } {
 }
 
 // Control characters (C0, DEL, C1): never part of a path, a title or a file name we accept.
-// eslint-disable-next-line no-control-regex
 const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
 
 export function validatePlan(value: unknown): Valid<Plan> {
