@@ -21,6 +21,7 @@
  *   up after the board's last stage if it has the headroom.
  * A separate output gain is taken to act after the cascade (the plan's signal order).
  */
+import { HEADROOM_WARN_DB } from '../analysis/check';
 import { headroom } from '../analysis/headroom';
 import { poleRadius } from '../analysis/poles';
 import type { Section } from '../design/section';
@@ -62,8 +63,12 @@ export interface ScalingSuggestion {
   alreadySafe: boolean;
 }
 
-/** Internal peaks above this count as overflow (0 dBFS plus rounding of the peak search). */
-export const OVERFLOW_TOLERANCE_DB = 1e-6;
+/**
+ * Internal peaks above this count as overflow: the plan check's own threshold for boost
+ * (HEADROOM_WARN_DB, 0.01 dB), so a Butterworth-ish Q typed as 0.7071 (a +4e-6 dB rise) is not
+ * reported as overflow. The suggested scaling itself attenuates any peak above 0 dB exactly.
+ */
+export const OVERFLOW_TOLERANCE_DB = HEADROOM_WARN_DB;
 
 export function suggestOrderAndScaling(sections: readonly Section[], sampleRateHz: number, current?: PartialPeak[]): ScalingSuggestion {
   const radii = sections.map(poleRadius);
