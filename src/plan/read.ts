@@ -134,14 +134,16 @@ const PROFILE_KEYS = [
 
 /**
  * Reads a board profile at `path` (`profile` in a plan); throws `PlanError` with the field path.
- * Every field is required except `sampleRate` (default null: the plan's rate), `writeA0` (false),
- * `coefficientScale` (1), `gain` ("separate"), `delayUnit` ("samples") and `maxDelaySamples` (null).
+ * Only `sectionBudget` is required; the rest default to the file convention: `name` ("custom
+ * profile"), `sampleRate` (null: the plan's rate), `order` (b0 b1 b2 a1 a2), `feedbackSign`
+ * ("as-computed"), `writeA0` (false), `number` (shortest exact decimal), `coefficientScale` (1),
+ * `gain` ("separate"), `delayUnit` ("samples") and `maxDelaySamples` (null).
  */
 export function readBoardProfile(v: unknown, path: string): BoardProfile {
   const o = object(v, path);
   allowKeys(o, path, PROFILE_KEYS);
   const at = (key: string) => (path ? `${path}.${key}` : key);
-  const name = str(o.name, at('name'), LIMITS.nameMaxLength);
+  const name = o.name === undefined ? 'custom profile' : str(o.name, at('name'), LIMITS.nameMaxLength);
   let sampleRate: number | null = null;
   if (o.sampleRate !== undefined && o.sampleRate !== null) {
     sampleRate = num(o.sampleRate, at('sampleRate'));
@@ -150,9 +152,10 @@ export function readBoardProfile(v: unknown, path: string): BoardProfile {
     }
   }
   const writeA0 = o.writeA0 === undefined ? false : bool(o.writeA0, at('writeA0'));
-  const order = readOrder(o.order, at('order'), writeA0);
-  const feedbackSign = oneOf(o.feedbackSign, at('feedbackSign'), ['as-computed', 'negated']) as BoardProfile['feedbackSign'];
-  const number = readNumberFormat(o.number, at('number'));
+  const order: CoefficientName[] = o.order === undefined ? ['b0', 'b1', 'b2', 'a1', 'a2'] : readOrder(o.order, at('order'), writeA0);
+  const feedbackSign =
+    o.feedbackSign === undefined ? 'as-computed' : (oneOf(o.feedbackSign, at('feedbackSign'), ['as-computed', 'negated']) as BoardProfile['feedbackSign']);
+  const number: NumberFormat = o.number === undefined ? { kind: 'decimal', significantDigits: null } : readNumberFormat(o.number, at('number'));
   const coefficientScale = o.coefficientScale === undefined ? 1 : num(o.coefficientScale, at('coefficientScale'));
   const log2 = Math.log2(Math.abs(coefficientScale));
   if (!(coefficientScale > 0) || !Number.isInteger(log2) || Math.abs(log2) > LIMITS.coefficientScaleLog2Max) {

@@ -128,13 +128,11 @@ describe('version 2 profile', () => {
     ]);
   });
 
-  it('fills defaults for the optional profile fields', () => {
-    const r = readPlanValue(
-      withProfile({ name: 'min', order: ['b0', 'b1', 'b2', 'a1', 'a2'], feedbackSign: 'as-computed', number: { kind: 'decimal' }, sectionBudget: 8 }),
-    );
+  it('fills defaults (the file convention) for every field but the section budget', () => {
+    const r = readPlanValue(withProfile({ sectionBudget: 8 }));
     if (!r.ok) throw r.error;
     expect(r.plan.profile).toEqual({
-      name: 'min',
+      name: 'custom profile',
       sampleRate: null,
       order: ['b0', 'b1', 'b2', 'a1', 'a2'],
       feedbackSign: 'as-computed',
@@ -146,6 +144,12 @@ describe('version 2 profile', () => {
       maxDelaySamples: null,
       sectionBudget: 8,
     });
+  });
+
+  it('requires the section budget', () => {
+    const r = readPlanValue(withProfile({ name: 'x' }));
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.error.message).toBe('profile.sectionBudget: is required');
   });
 
   const base = profileToJson(CUSTOM);
