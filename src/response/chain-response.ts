@@ -156,6 +156,8 @@ export function logFrequencies(n: number, fromHz: number, toHz: number): Float64
   const l0 = Math.log(fromHz);
   const step = (Math.log(toHz) - l0) / (n - 1);
   for (let i = 0; i < n; i++) out[i] = Math.exp(l0 + i * step);
+  // Both ends exactly as asked (exp(log(50)) is 49.99999999999999).
+  out[0] = fromHz;
   out[n - 1] = toHz;
   return out;
 }
