@@ -45,13 +45,14 @@ export function exportWarnings(list: ExportList): string[] {
 }
 
 export function cmdExport(argv: string[], io: CliIo): CliResult {
-  const args = parseArgs(argv, ['profile', 'format', 'output']);
+  const args = parseArgs(argv, ['profile', 'format', 'output', 'arrange']);
   const format = optChoice(args, 'format', EXPORT_FORMATS, 'text') as ExportFormat;
+  const arrangement = optChoice(args, 'arrange', ['as-designed', 'suggested'] as const, 'as-designed');
   const outputId = optString(args, 'output');
   const { plan, path } = loadPlan(args, io);
   checkOutputId(plan, outputId);
   const profile = resolveProfile(args, io, plan);
-  const r = buildExportList(plan, profile, outputId);
+  const r = buildExportList(plan, profile, outputId, { arrangement });
   if (!r.ok) {
     return { code: 1, stdout: '', stderr: r.problems.map((p) => `error: ${path}: ${p.message}\n`).join('') };
   }

@@ -35,10 +35,11 @@ commands:
       --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers
   check PLAN [--format text|json]
       validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass)
-  export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID]
+  export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID] [--arrange as-designed|suggested]
       the coefficient list a DSP board wants, per its board profile (default: the plan's own,
       else "float"); refused when an output needs more sections than the board runs.
       Saturated coefficients and sections unstable after quantization are flagged on stderr.
+      --arrange suggested: sections reordered and scaled so no internal node peaks above 0 dBFS
   profiles [--format text|json]
       the built-in board profiles
   import FILE --profile NAME|FILE [--format auto|text|csv|json|c] [--name NAME] [--sample-rate HZ]

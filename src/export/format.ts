@@ -73,9 +73,13 @@ export function exportText(list: ExportList): string {
     lines.push('', `output ${o.id}`);
     if (o.gain.written) lines.push(`gain ${o.gain.written.text}`);
     lines.push(`delay ${o.delay.text} ${list.profile.delayUnit}`);
-    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}`);
+    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}${scaleNote(s.scale)}`);
   }
   return lines.join('\n') + '\n';
+}
+
+function scaleNote(scale: number): string {
+  return scale === 1 ? '' : ` (b scaled x${scale.toPrecision(6)})`;
 }
 
 function csvCell(s: string): string {
@@ -171,7 +175,7 @@ export function exportC(list: ExportList): string {
     lines.push(`static const ${type} bq_${lower}_sos[${o.sections.length}][${order.length}] = {`);
     o.sections.forEach((s, i) => {
       const sep = i === o.sections.length - 1 ? '' : ',';
-      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${s.index} ${cComment(s.from)} */`);
+      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${s.index} ${cComment(s.from)}${scaleNote(s.scale)} */`);
     });
     lines.push('};');
   }

@@ -180,7 +180,7 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
     const tokens = line.split(/[\s,;]+/).filter((t) => t !== '');
     const values = tokens.map((t) => readToken(t, profile, where));
     // "# 3 input/b1" after a section: the export's index and origin.
-    const from = /^\d+\s+(\S+)$/.exec(comment)?.[1];
+    const from = /^\d+\s+(\S+)/.exec(comment)?.[1];
     ensure().sections.push(toSection(values, names, profile, where, from));
   });
   return { profile, sampleRate: profile.sampleRate, outputs, notes: [] };
@@ -305,7 +305,7 @@ function parseC(text: string, profile: BoardProfile): ImportedList {
     if (delay) out.delay = { value: Number(delay[2]), unit: delay[1] === 'MS' ? 'ms' : 'samples' };
     const sos = /_sos\s*\[[^\]]*\]\s*\[[^\]]*\]\s*=\s*\{([\s\S]*?)\};/.exec(chunk);
     if (sos) {
-      const rowRe = /\{([^{}]*)\}\s*,?\s*(?:\/\*\s*\d+\s+(.*?)\s*\*\/)?/g;
+      const rowRe = /\{([^{}]*)\}\s*,?\s*(?:\/\*\s*\d+\s+(\S+).*?\*\/)?/g;
       let m: RegExpExecArray | null;
       let k = 0;
       while ((m = rowRe.exec(sos[1])) !== null) {

@@ -27,6 +27,7 @@ import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
 import { fromFixed, toFixed, toHex, type FixedFormat, type Saturation } from './fixed';
 import { effectiveOrder } from './profiles';
+import { suggestOrderAndScaling } from './overflow';
 
 /** One number as the board gets it. */
 export interface WrittenNumber {
@@ -44,6 +45,8 @@ export interface ExportSection {
   /** 1-based position in the output's list. */
   index: number;
   from: string;
+  /** The factor the suggested scaling put on b0 b1 b2 (1 when not rearranged). */
+  scale: number;
   /** The exact design (file convention), gain folded in when the profile says so. */
   ideal: Section;
   /** The numbers written, in the profile's order. */
@@ -117,7 +120,18 @@ export function planAtProfileRate(plan: Plan, profile: BoardProfile): { ok: true
 }
 
 /** Builds the list for every output (or one). Never throws for a valid plan and profile. */
-export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: string): ExportResult {
+export interface ExportOptions {
+  /**
+   * "as-designed" (default): signal order, no scaling. "suggested": each output's sections in the
+   * order and with the scaling of `suggestOrderAndScaling` (overflow.ts), applied to the exact
+   * design before quantization; a separate gain takes back the level the scaling removed, so the
+   * output's response is the plan's (only its internal nodes change). A folded gain cannot, and
+   * the notes say by how much the output is lower.
+   */
+  arrangement?: 'as-designed' | 'suggested';
+}
+
+export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: string, options: ExportOptions = {}): ExportResult {
   const at = planAtProfileRate(plan, profile);
   if (!at.ok) return { ok: false, problems: [at.problem] };
   const p = at.plan;
@@ -159,14 +173,25 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
         message: `output "${o.id}" delays ${delaySamples} samples, ${delaySamples - profile.maxDelaySamples} more than the board's ${profile.maxDelaySamples}`,
       });
     }
-    const writtenGain = profile.gain === 'separate' ? writeNumber(gain, profile) : null;
+    let outGain = gain;
+    let scales: number[] = sections.map(() => 1);
+    if (options.arrangement === 'suggested' && sections.length > 0) {
+      const sug = suggestOrderAndScaling(sections, fs);
+      scales = sug.scales;
+      sections = sug.order.map((j, k) => ({ ...sug.sections[k], from: sections[j].from }));
+      if (sug.levelChangeDb < 0) {
+        if (profile.gain === 'separate') outGain = gain * Math.pow(10, -sug.levelChangeDb / 20);
+        else notes.push(`output "${o.id}": the suggested scaling leaves the output ${(-sug.levelChangeDb).toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`);
+      }
+    }
+    const writtenGain = profile.gain === 'separate' ? writeNumber(outGain, profile) : null;
     outputs.push({
       id: o.id,
       name: o.name,
       mute: o.mute,
-      gain: { ideal: gain, written: writtenGain, quantized: writtenGain ? readBack(writtenGain, profile) : 1 },
+      gain: { ideal: outGain, written: writtenGain, quantized: writtenGain ? readBack(writtenGain, profile) : 1 },
       delay: { ms: o.delayMs, samples: delaySamples, text: profile.delayUnit === 'samples' ? String(delaySamples) : numText(o.delayMs) },
-      sections: sections.map((s, k) => exportSection(s, k + 1, profile)),
+      sections: sections.map((s, k) => ({ ...exportSection(s, k + 1, profile), scale: scales[k] })),
     });
   });
   if (problems.length > 0) return { ok: false, problems };
@@ -242,6 +267,7 @@ export function exportSection(s: SourcedSection, index: number, profile: BoardPr
   return {
     index,
     from: s.from,
+    scale: 1,
     ideal,
     written,
     quantized,

@@ -128,6 +128,31 @@ describe('sample rate of the board', () => {
   });
 });
 
+describe('suggested arrangement', () => {
+  it('keeps every internal peak at or below 0 dBFS and, with a separate gain, the output response', async () => {
+    const { partialCascadePeaks, OVERFLOW_TOLERANCE_DB } = await import('../../src/export/overflow');
+    const { compareOutput } = await import('../../src/export/quantized');
+    const { logFrequencies } = await import('../../src/response/chain-response');
+    const plan = demo();
+    plan.outputs[0].bands.push({ id: 'boost', type: 'peaking', frequency: 120, gainDb: 8, q: 3, enabled: true });
+    plan.outputs[0].bands.push({ id: 'cut', type: 'peaking', frequency: 400, gainDb: -10, q: 1, enabled: true });
+    const p = float();
+    const plain = buildExportList(plan, p);
+    const arranged = buildExportList(plan, p, undefined, { arrangement: 'suggested' });
+    if (!plain.ok || !arranged.ok) throw new Error();
+    const before = partialCascadePeaks(plain.list.outputs[0].sections.map((s) => s.ideal), 48000);
+    expect(Math.max(...before.map((x) => x.peakDb))).toBeGreaterThan(1);
+    const after = partialCascadePeaks(arranged.list.outputs[0].sections.map((s) => s.ideal), 48000);
+    for (const x of after) expect(x.peakDb).toBeLessThanOrEqual(OVERFLOW_TOLERANCE_DB);
+    // Same sections (by origin), another order; the overall response is unchanged.
+    expect(arranged.list.outputs[0].sections.map((s) => s.from).sort()).toEqual(plain.list.outputs[0].sections.map((s) => s.from).sort());
+    const f = logFrequencies(50, 20, 20000);
+    const a = compareOutput(plain.list.outputs[0], f, 48000);
+    const b = compareOutput(arranged.list.outputs[0], f, 48000);
+    for (let i = 0; i < f.length; i++) expect(b.quantized.magnitudeDb[i]).toBeCloseTo(a.quantized.magnitudeDb[i], 9);
+  });
+});
+
 describe('delay', () => {
   it('rounds to whole samples at the board rate and refuses a delay over the board limit', () => {
     const plan = demo();
