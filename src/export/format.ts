@@ -4,7 +4,7 @@
  * the profile's digits, signed integers or two's-complement hex), so every format carries the
  * same values; `import.ts` reads each of them back.
  */
-import type { ExportList, ExportOutput, WrittenNumber } from './list';
+import type { ExportList, ExportOutput, ExportSection, WrittenNumber } from './list';
 import { profileToJson } from '../plan/write';
 import { describeProfile, effectiveOrder } from './profiles';
 import { qName } from './fixed';
@@ -73,9 +73,22 @@ export function exportText(list: ExportList): string {
     lines.push('', `output ${o.id}`);
     if (o.gain.written) lines.push(`gain ${o.gain.written.text}`);
     lines.push(`delay ${o.delay.text} ${list.profile.delayUnit}`);
-    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}${scaleNote(s.scale)}`);
+    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}${scaleNote(s.scale)}${flagNote(s)}`);
   }
   return lines.join('\n') + '\n';
+}
+
+/** The flags a section carries, for comments and the CSV's last column ('' when none). */
+export function sectionFlags(s: ExportSection): string {
+  const flags: string[] = [];
+  if (!s.stable) flags.push(`UNSTABLE (pole radius ${s.poleRadius})`);
+  if (s.saturated.length > 0) flags.push(`SATURATED ${s.saturated.join(' ')}`);
+  return flags.join('; ');
+}
+
+function flagNote(s: ExportSection): string {
+  const f = sectionFlags(s);
+  return f ? ` -- ${f}` : '';
 }
 
 function scaleNote(scale: number): string {
@@ -90,12 +103,12 @@ export function exportCsv(list: ExportList): string {
   const order = effectiveOrder(list.profile);
   const separate = list.profile.gain === 'separate';
   const delayColumn = list.profile.delayUnit === 'samples' ? 'delaySamples' : 'delayMs';
-  const header = ['output', 'section', 'from', ...order, ...(separate ? ['gain'] : []), delayColumn];
+  const header = ['output', 'section', 'from', ...order, ...(separate ? ['gain'] : []), delayColumn, 'flags'];
   const rows = [header.join(',')];
   const tail = (o: ExportOutput) => [...(separate ? [o.gain.written?.text ?? ''] : []), o.delay.text];
   for (const o of list.outputs) {
-    for (const s of o.sections) rows.push([csvCell(o.id), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o)].join(','));
-    if (o.sections.length === 0) rows.push([csvCell(o.id), '0', '', ...order.map(() => ''), ...tail(o)].join(','));
+    for (const s of o.sections) rows.push([csvCell(o.id), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o), csvCell(sectionFlags(s))].join(','));
+    if (o.sections.length === 0) rows.push([csvCell(o.id), '0', '', ...order.map(() => ''), ...tail(o), ''].join(','));
   }
   return rows.join('\n') + '\n';
 }
@@ -110,6 +123,7 @@ export function exportJson(list: ExportList): string {
   const doc = {
     format: COEFFICIENTS_FORMAT,
     plan: list.planName,
+    notes: list.notes,
     sampleRate: list.sampleRate,
     profile: profileToJson(list.profile),
     convention: conventionLines(list).slice(4),
@@ -118,7 +132,17 @@ export function exportJson(list: ExportList): string {
       id: o.id,
       gain: o.gain.written ? jsonNumber(o.gain.written, hex) : null,
       delay: list.profile.delayUnit === 'samples' ? o.delay.samples : o.delay.ms,
-      sections: o.sections.map((s) => ({ from: s.from, coefficients: s.written.map((w) => jsonNumber(w.number, hex)) })),
+      gainSaturated: o.gain.written ? o.gain.written.saturation !== 'none' : false,
+      sections: o.sections.map((s) => ({
+        from: s.from,
+        coefficients: s.written.map((w) => jsonNumber(w.number, hex)),
+        // The report beside the numbers (import ignores it): what quantization did to this section.
+        saturated: s.saturated,
+        poleRadius: s.poleRadius,
+        stable: s.stable,
+        largestError: s.largestError,
+        ...(s.scale !== 1 ? { scale: s.scale } : {}),
+      })),
     })),
   };
   return JSON.stringify(doc, null, 2) + '\n';
@@ -175,7 +199,7 @@ export function exportC(list: ExportList): string {
     lines.push(`static const ${type} bq_${lower}_sos[${o.sections.length}][${order.length}] = {`);
     o.sections.forEach((s, i) => {
       const sep = i === o.sections.length - 1 ? '' : ',';
-      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${s.index} ${cComment(s.from)}${scaleNote(s.scale)} */`);
+      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${s.index} ${cComment(s.from)}${scaleNote(s.scale)}${flagNote(s)} */`);
     });
     lines.push('};');
   }

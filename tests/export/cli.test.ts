@@ -38,8 +38,10 @@ describe('export', () => {
     const r = runCli(['export', PLAN, '--profile', 'q1.31-negated', '--format', 'csv', '--output', 'tweeter'], io());
     expect(r.code).toBe(0);
     const rows = r.stdout.trim().split('\n');
-    expect(rows[0]).toBe('output,section,from,b0,b1,b2,a1,a2,gain,delaySamples');
+    expect(rows[0]).toBe('output,section,from,b0,b1,b2,a1,a2,gain,delaySamples,flags');
     expect(rows).toHaveLength(5);
+    // a1 of the 32 Hz input high-pass is about -1.996: negated it saturates Q1.31 at its top.
+    expect(rows[1]).toMatch(/^tweeter,1,input\/b1,.*,2147483647,.*,SATURATED b1 a1$/);
     expect(rows.every((row, i) => i === 0 || row.startsWith('tweeter,'))).toBe(true);
     expect(r.stderr).toMatch(/warning: saturated coefficients: tweeter section 1/);
   });

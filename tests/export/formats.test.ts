@@ -99,6 +99,21 @@ describe('float export then import is exact', () => {
   });
 });
 
+describe('the JSON export carries the per-section report', () => {
+  it('saturation, pole radius and stability beside the numbers', () => {
+    const q131 = BUILT_IN_PROFILES.find((b) => b.key === 'q1.31-negated')!.profile;
+    const list = listOf(plans()[0], q131);
+    const doc = JSON.parse(formatExport(list, 'json'));
+    const s = doc.outputs[0].sections[0];
+    expect(s.saturated).toEqual(list.outputs[0].sections[0].saturated);
+    expect(s.saturated).toContain('a1');
+    expect(s.poleRadius).toBe(list.outputs[0].sections[0].poleRadius);
+    expect(s.stable).toBe(true);
+    expect(doc.outputs[0].gainSaturated).toBe(true); // 1.0 does not fit Q1.31
+    expect(doc.notes.join(' ')).toMatch(/saturated coefficients/);
+  });
+});
+
 describe('import of pasted lists', () => {
   const q523 = BUILT_IN_PROFILES.find((b) => b.key === 'q5.23')!.profile;
   it('reads bare lines of hex words with comments and mixed separators', () => {
