@@ -8,6 +8,13 @@
  * because the gestures here are handled directly. Curves arrive as Float64Arrays on a grid of
  * about one point per pixel column; a curve is converted to points only when its response
  * object changed (responses are immutable, so identity is enough).
+ *
+ * Each plot has a transparent overlay canvas above the Chart.js canvas. It carries the crosshair,
+ * the band handles and, during a drag, the "hot" curves (the dragged output's and the sum): the
+ * Chart.js canvas then keeps the still curves, axes and grid untouched, and a drag frame redraws
+ * two polylines per plot instead of every dataset (Chart.js redraws whole charts; measured in
+ * headless Chromium, that alone overran the 16 ms frame budget). The overlay uses the chart's
+ * own scales, so both layers line up; at the end of the drag the curves go back to Chart.js.
  */
 import type { ChartConfiguration, Plugin, Scale } from 'chart.js';
 import type { Response } from '../../../src/response/chain-response';
@@ -44,6 +51,8 @@ export interface PlotFrame {
   phaseMode: 'wrapped' | 'unwrapped';
   curves: PlotCurve[];
   handles: PlotHandle[];
+  /** Ids of curves that change every frame (during a drag), drawn on the overlay; null when idle. */
+  hot: ReadonlySet<string> | null;
 }
 
 export interface DragDelta {
@@ -174,15 +183,28 @@ export class ResponsePlots {
   /** For the UI benchmark and tests: the timeStamp of the input event behind the pending update. */
   pendingInputTime: number | null = null;
 
-  constructor(canvases: Record<PlotKind, HTMLCanvasElement>, callbacks: PlotCallbacks) {
+  #overlays: Record<PlotKind, HTMLCanvasElement>;
+  /** Per plot: the chart-side state that decides whether Chart.js must redraw. */
+  #chartKey: Record<PlotKind, string> = { magnitude: '', phase: '', groupDelay: '' };
+  #xPixels: Record<PlotKind, { key: string; px: Float64Array }> = {
+    magnitude: { key: '', px: new Float64Array(0) },
+    phase: { key: '', px: new Float64Array(0) },
+    groupDelay: { key: '', px: new Float64Array(0) },
+  };
+  #yRanges: Record<'phase' | 'groupDelay', [number, number]> = { phase: [-180, 180], groupDelay: [-1, 5] };
+  /** Counts of Chart.js updates and overlay redraws (tests check a drag skips Chart.js). */
+  readonly counters = { chartUpdates: 0, overlayDraws: 0 };
+
+  constructor(canvases: Record<PlotKind, { base: HTMLCanvasElement; overlay: HTMLCanvasElement }>, callbacks: PlotCallbacks) {
     this.#cb = callbacks;
     this.#theme = readTheme();
+    this.#overlays = { magnitude: canvases.magnitude.overlay, phase: canvases.phase.overlay, groupDelay: canvases.groupDelay.overlay };
     this.charts = {
-      magnitude: this.#create(canvases.magnitude, 'magnitude'),
-      phase: this.#create(canvases.phase, 'phase'),
-      groupDelay: this.#create(canvases.groupDelay, 'groupDelay'),
+      magnitude: this.#create(canvases.magnitude.base, 'magnitude'),
+      phase: this.#create(canvases.phase.base, 'phase'),
+      groupDelay: this.#create(canvases.groupDelay.base, 'groupDelay'),
     };
-    for (const kind of PLOT_KINDS) this.#listen(canvases[kind], kind);
+    for (const kind of PLOT_KINDS) this.#listen(canvases[kind].overlay, kind);
   }
 
   #create(canvas: HTMLCanvasElement, kind: PlotKind): Chart<'line', XY[]> {
@@ -190,8 +212,9 @@ export class ResponsePlots {
     const self = this;
     const overlay: Plugin<'line'> = {
       id: `overlay-${kind}`,
-      afterDatasetsDraw(chart) {
-        self.#drawOverlay(chart as unknown as Chart<'line', XY[]>, kind);
+      afterDraw() {
+        // The scales may have moved: the overlay follows every Chart.js draw.
+        self.#drawOverlay(kind);
       },
     };
     const yTitle = kind === 'magnitude' ? 'dB' : kind === 'phase' ? 'phase \u00b0' : 'delay ms';
@@ -266,52 +289,66 @@ export class ResponsePlots {
     const prev = this.#frame;
     this.#frame = frame;
     const gridChanged = !prev || prev.frequencies !== frame.frequencies;
+    const hot = frame.hot;
     for (const kind of PLOT_KINDS) {
       const chart = this.charts[kind];
-      const x = chart.options.scales!.x!;
-      x.min = frame.range[0];
-      x.max = frame.range[1];
-      const y = chart.options.scales!.y!;
-      const curves = kind === 'magnitude' ? frame.curves : frame.curves.filter((c) => !c.magnitudeOnly);
+      const all = kind === 'magnitude' ? frame.curves : frame.curves.filter((c) => !c.magnitudeOnly);
+      const curves = hot ? all.filter((c) => !hot.has(c.id)) : all;
       const arrays = curves.map((c) => this.#source(c, kind, frame.phaseMode));
+      const x = chart.options.scales!.x!;
+      const y = chart.options.scales!.y!;
+      const ticks = y.ticks as { stepSize?: number };
       if (kind === 'magnitude') {
         [y.min, y.max] = frame.magRange;
         const span = frame.magRange[1] - frame.magRange[0];
-        (y.ticks as { stepSize?: number }).stepSize = [1, 2, 3, 6, 12, 24, 48].find((s) => span / s <= 8) ?? 48;
+        ticks.stepSize = [1, 2, 3, 6, 12, 24, 48].find((s) => span / s <= 8) ?? 48;
       } else if (kind === 'phase') {
-        if (frame.phaseMode === 'wrapped') {
-          y.min = -180;
-          y.max = 180;
-          (y.ticks as { stepSize?: number }).stepSize = 90;
-        } else {
-          [y.min, y.max] = unwrappedPhaseRange(arrays);
-          (y.ticks as { stepSize?: number }).stepSize = Math.max(90, niceStep(y.max - y.min) >= 180 ? Math.ceil(niceStep(y.max - y.min) / 180) * 180 : 90);
-        }
+        // Ranges follow the data when idle and hold still during a drag.
+        if (!hot) this.#yRanges.phase = frame.phaseMode === 'wrapped' ? [-180, 180] : unwrappedPhaseRange(all.map((c) => this.#source(c, kind, frame.phaseMode)));
+        [y.min, y.max] = this.#yRanges.phase;
+        const span = y.max - y.min;
+        ticks.stepSize = frame.phaseMode === 'wrapped' ? 90 : [90, 180, 360, 720, 1440, 2880, 5760].find((s) => span / s <= 6) ?? 11520;
       } else {
-        [y.min, y.max] = groupDelayRange(arrays);
-        (y.ticks as { stepSize?: number }).stepSize = undefined;
+        if (!hot) this.#yRanges.groupDelay = groupDelayRange(all.map((c) => this.#source(c, kind, frame.phaseMode)));
+        [y.min, y.max] = this.#yRanges.groupDelay;
+        ticks.stepSize = undefined;
       }
       const old = chart.data.datasets as (typeof chart.data.datasets[number] & { _meta?: DatasetMeta })[];
       const byId = new Map(old.map((d) => [d._meta!.curveId, d]));
-      chart.data.datasets = curves.map((c, i) => {
+      let changed = gridChanged || old.length !== curves.length || x.min !== frame.range[0] || x.max !== frame.range[1];
+      x.min = frame.range[0];
+      x.max = frame.range[1];
+      const datasets = curves.map((c, i) => {
         const src = arrays[i];
         const scale = kind === 'phase' ? RAD_TO_DEG : 1;
         let d = byId.get(c.id);
         if (!d) {
           d = { data: [], borderColor: c.color, borderWidth: c.width, borderDash: c.dash, pointRadius: 0, label: c.label, _meta: { curveId: c.id, source: null } } as never;
+          changed = true;
         }
         const meta = d!._meta!;
         if (meta.source !== src || gridChanged) {
           d!.data = points(frame.frequencies, src, scale);
           meta.source = src;
+          changed = true;
         }
+        if (old[i] !== d || d!.borderColor !== c.color || d!.borderWidth !== c.width || String(d!.borderDash) !== String(c.dash) || d!.label !== c.label) changed = true;
         d!.borderColor = c.color;
         d!.borderWidth = c.width;
         d!.borderDash = c.dash;
         d!.label = c.label;
         return d!;
       });
-      chart.update('none');
+      const key = `${y.min}|${y.max}|${ticks.stepSize}|${frame.phaseMode}`;
+      if (key !== this.#chartKey[kind]) changed = true;
+      this.#chartKey[kind] = key;
+      if (changed) {
+        chart.data.datasets = datasets;
+        chart.update('none'); // draws, and the overlay follows (afterDraw)
+        this.counters.chartUpdates++;
+      } else {
+        this.#drawOverlay(kind);
+      }
     }
   }
 
@@ -324,15 +361,90 @@ export class ResponsePlots {
   setHover(frequency: number | null): void {
     if (frequency === this.#hoverFrequency) return;
     this.#hoverFrequency = frequency;
-    for (const k of PLOT_KINDS) this.charts[k].draw();
+    for (const k of PLOT_KINDS) this.#drawOverlay(k);
   }
 
-  #drawOverlay(chart: Chart<'line', XY[]>, kind: PlotKind): void {
-    const ctx = chart.ctx;
+  /** Pixel x of every grid frequency for the chart's current x scale (rebuilt when it moves). */
+  #gridPixels(kind: PlotKind, freqs: Float64Array): Float64Array {
+    const chart = this.charts[kind];
+    const xs = chart.scales.x;
+    const a = chart.chartArea;
+    const key = `${xs.min}|${xs.max}|${a.left}|${a.width}|${freqs.length}|${freqs[0]}|${freqs[freqs.length - 1]}`;
+    const cached = this.#xPixels[kind];
+    if (cached.key === key && cached.px.length === freqs.length) return cached.px;
+    // Log axis: px = left + width * log(f / min) / log(max / min), built once outside the loop.
+    const px = new Float64Array(freqs.length);
+    const l0 = Math.log(xs.min);
+    const k = a.width / (Math.log(xs.max) - l0);
+    for (let i = 0; i < freqs.length; i++) px[i] = a.left + (Math.log(freqs[i]) - l0) * k;
+    this.#xPixels[kind] = { key, px };
+    return px;
+  }
+
+  #drawOverlay(kind: PlotKind): void {
+    // Chart.js draws once inside its constructor, before `charts` is set.
+    const chart = this.charts?.[kind];
+    if (!chart) return;
+    const canvas = this.#overlays[kind];
     const area = chart.chartArea;
+    if (!area) return;
+    const ctx = canvas.getContext('2d');
+    if (!ctx) return;
+    this.counters.overlayDraws++;
+    const base = chart.canvas;
+    if (canvas.width !== base.width || canvas.height !== base.height) {
+      canvas.width = base.width;
+      canvas.height = base.height;
+    }
+    const dpr = chart.currentDevicePixelRatio || 1;
+    ctx.setTransform(1, 0, 0, 1, 0, 0);
+    ctx.clearRect(0, 0, canvas.width, canvas.height);
+    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
     const xs = chart.scales.x;
     const ys = chart.scales.y;
     const t = this.#theme;
+    const frame = this.#frame;
+
+    if (frame?.hot) {
+      const hot = frame.hot;
+      const px = this.#gridPixels(kind, frame.frequencies);
+      const y0 = ys.getPixelForValue(0);
+      const y1 = ys.getPixelForValue(1) - y0;
+      const scale = kind === 'phase' ? RAD_TO_DEG : 1;
+      ctx.save();
+      ctx.beginPath();
+      ctx.rect(area.left, area.top, area.width, area.height);
+      ctx.clip();
+      ctx.lineJoin = 'round';
+      ctx.lineCap = 'round';
+      const list = frame.curves.filter((c) => hot.has(c.id) && (kind === 'magnitude' || !c.magnitudeOnly));
+      // Same stacking as Chart.js: the first curve (the sum) on top.
+      for (let j = list.length - 1; j >= 0; j--) {
+        const c = list[j];
+        const v = this.#source(c, kind, frame.phaseMode);
+        ctx.strokeStyle = c.color;
+        ctx.lineWidth = c.width;
+        ctx.setLineDash(c.dash);
+        ctx.beginPath();
+        let pen = false;
+        const lo = area.top - 2000;
+        const hi = area.bottom + 2000;
+        for (let i = 0; i < v.length; i++) {
+          const val = v[i] * scale;
+          if (!Number.isFinite(val)) {
+            pen = false;
+            continue;
+          }
+          const yp = Math.min(hi, Math.max(lo, y0 + val * y1));
+          if (pen) ctx.lineTo(px[i], yp);
+          else ctx.moveTo(px[i], yp);
+          pen = true;
+        }
+        ctx.stroke();
+      }
+      ctx.restore();
+    }
+
     const f = this.#hoverFrequency;
     if (f !== null && f >= xs.min && f <= xs.max) {
       const x = xs.getPixelForValue(f);
@@ -346,15 +458,15 @@ export class ResponsePlots {
       ctx.stroke();
       ctx.restore();
     }
-    if (kind !== 'magnitude' || !this.#frame) return;
+    if (kind !== 'magnitude' || !frame) return;
     ctx.save();
     ctx.beginPath();
-    ctx.rect(area.left - HANDLE_RADIUS, area.top - HANDLE_RADIUS, area.width + 2 * HANDLE_RADIUS, area.height + 2 * HANDLE_RADIUS);
+    ctx.rect(area.left - HANDLE_RADIUS - 3, area.top - HANDLE_RADIUS - 3, area.width + 2 * HANDLE_RADIUS + 6, area.height + 2 * HANDLE_RADIUS + 6);
     ctx.clip();
     ctx.font = '600 11px system-ui, sans-serif';
     ctx.textAlign = 'center';
     ctx.textBaseline = 'middle';
-    const handles = [...this.#frame.handles].sort((a, b) => Number(a.selected) - Number(b.selected));
+    const handles = [...frame.handles].sort((a, b) => Number(a.selected) - Number(b.selected));
     for (const h of handles) {
       if (h.frequency < xs.min || h.frequency > xs.max) continue;
       const x = xs.getPixelForValue(h.frequency);
@@ -362,7 +474,8 @@ export class ResponsePlots {
       const r = h.selected ? HANDLE_RADIUS + 2 : HANDLE_RADIUS;
       if (h.selected) {
         ctx.strokeStyle = h.color;
-        ctx.globalAlpha = 0.5;
+        ctx.lineWidth = 1;
+        ctx.globalAlpha = 0.6;
         ctx.setLineDash([2, 3]);
         ctx.beginPath();
         ctx.moveTo(x, area.top);

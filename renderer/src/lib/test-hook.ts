@@ -29,11 +29,17 @@ export interface TestHook {
   plotted: () => Plotted | null;
   /** Page (client) coordinates of a band handle of the selected chain. */
   handle: (bandId: string) => { x: number; y: number } | null;
-  cacheStats: () => CacheStats | null;
+  cacheStats: () => (CacheStats & { chartUpdates: number; overlayDraws: number }) | null;
   /** Milliseconds per drag frame, appended as frames are painted. */
   frameTimes: number[];
   /** Count of plot updates (each redraws the three plots). */
   plotUpdates: number;
+  /** Milliseconds spent in each plot update (Chart.js update and draw of the three plots). */
+  drawTimes: number[];
+  /** Milliseconds from a drag's input event to the end of the script work it caused (model, views, plots). */
+  scriptTimes: number[];
+  /** Milliseconds from a drag's input event to the next animation frame callback (before paint). */
+  rafTimes: number[];
 }
 
 declare global {
@@ -52,6 +58,9 @@ export const testHook: TestHook = {
   cacheStats: () => null,
   frameTimes: [],
   plotUpdates: 0,
+  drawTimes: [],
+  scriptTimes: [],
+  rafTimes: [],
 };
 
 export function installTestHook(): void {
@@ -60,7 +69,10 @@ export function installTestHook(): void {
 
 /** Records the time from an input event to the frame after it was drawn (after paint). */
 export function recordFrame(inputTime: number): void {
+  // After the rest of this task's microtasks (Svelte flushes the other views there).
+  setTimeout(() => testHook.scriptTimes.push(performance.now() - inputTime), 0);
   requestAnimationFrame(() => {
+    testHook.rafTimes.push(performance.now() - inputTime);
     const ch = new MessageChannel();
     ch.port1.onmessage = () => {
       testHook.frameTimes.push(performance.now() - inputTime);
