@@ -202,6 +202,7 @@ function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: 
   const tau = base + 7 * padded;
   const slope = base + 8 * padded;
   const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
+  let redo: number[] | null = null;
   for (let i = 0; i < points; i++) {
     const r = mem[hr + i];
     const m = mem[hi + i];
@@ -209,5 +210,21 @@ function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: 
     phaseRad[i] = Math.atan2(m, r);
     groupDelaySamples[i] = mem[tau + i];
     logSlope[i] = mem[slope + i];
+    if (Number.isNaN(magnitudeDb[i])) (redo ??= []).push(i);
+  }
+  // An exact zero of a section (a high-pass at 0 Hz, a low-pass at Nyquist, a notch at its
+  // frequency) makes the SIMD loop's 1 / (|N|^2 |D|^2) infinite and its H NaN, and a NaN output
+  // turns the whole sum NaN there. The JavaScript kernel keeps |N|^2 and |D|^2 apart and gives
+  // -Infinity dB: redo those few points with it.
+  if (redo) {
+    const w = Float64Array.from(redo, (i) => omega[i]);
+    const one = allocateKernelOutput(redo.length);
+    cascadeResponseJs(packed, sectionCount, w, one);
+    redo.forEach((i, j) => {
+      magnitudeDb[i] = one.magnitudeDb[j];
+      phaseRad[i] = one.phaseRad[j];
+      groupDelaySamples[i] = one.groupDelaySamples[j];
+      logSlope[i] = one.logSlope[j];
+    });
   }
 }
