@@ -147,8 +147,12 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
     }
     return current;
   };
+  let sampleRate = profile.sampleRate;
   text.split(/\r?\n/).forEach((raw, i) => {
     const where = `line ${i + 1}`;
+    // Our text export states its rate in a comment: "# Sample rate: 48000 Hz".
+    const rate = /^\s*#\s*Sample rate:\s*(\d+(?:\.\d+)?)\s*Hz/i.exec(raw);
+    if (rate) sampleRate = Number(rate[1]);
     const hash = raw.indexOf('#');
     let comment = hash >= 0 ? raw.slice(hash + 1).trim() : '';
     let line = hash >= 0 ? raw.slice(0, hash) : raw;
@@ -183,7 +187,7 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
     const from = /^\d+\s+(\S+)/.exec(comment)?.[1];
     ensure().sections.push(toSection(values, names, profile, where, from));
   });
-  return { profile, sampleRate: profile.sampleRate, outputs, notes: [] };
+  return { profile, sampleRate, outputs, notes: [] };
 }
 
 // ---- CSV -----------------------------------------------------------------------------------------
