@@ -227,7 +227,7 @@ describe('phase wrapping to (-180, 180]', () => {
     const wrapped = Float64Array.from([3, -3, -2.9, 3.1, 0]);
     const out = new Float64Array(5);
     unwrapInto(wrapped, out);
-    // numpy.unwrap([3, -3, -2.9, 3.1, 0]) = [3, 3.28318531, 3.38318531, 3.1, 0] (derived: add 2 pi
+    // numpy.unwrap([3, -3, -2.9, 3.1, 0]) = [3, 3.28318531, 3.38318531, 3.1, 0] (numpy 2.4.6 here; add 2 pi
     // after the first jump, remove it after the jump back).
     const expected = [3, -3 + 2 * Math.PI, -2.9 + 2 * Math.PI, 3.1, 0];
     out.forEach((x, i) => expect(x).toBeCloseTo(expected[i], 12));
