@@ -208,6 +208,16 @@ describe('cookbook facts', () => {
     }
   });
 
+  it('a shelf with both q and slope uses q (plan-format.md: "q wins if both"); no q and no slope is S = 1', () => {
+    for (const type of ['lowShelf', 'highShelf'] as const) {
+      const both = one(band(type, 300, { gainDb: 6, q: 2.5, slope: 0.4 }), 48000);
+      const qOnly = one(band(type, 300, { gainDb: 6, q: 2.5 }), 48000);
+      expect(both).toEqual(qOnly);
+      expect(one(band(type, 300, { gainDb: 6 }), 48000)).toEqual(one(band(type, 300, { gainDb: 6, slope: 1 }), 48000));
+      expect(both).not.toEqual(one(band(type, 300, { gainDb: 6, slope: 0.4 }), 48000));
+    }
+  });
+
   it('maxShelfSlope is the limit where the cookbook alpha stays real', () => {
     for (const g of [1, 6, 12, 30]) {
       const A = Math.pow(10, g / 40);
