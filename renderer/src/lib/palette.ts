@@ -40,3 +40,9 @@ export function cssColor(name: string, fallback: string): string {
   const v = getComputedStyle(document.documentElement).getPropertyValue(name).trim();
   return v || fallback;
 }
+
+/** Whether a canvas can be drawn on (false in jsdom, where component tests run without a 2D context). */
+export function canDraw(canvas: HTMLCanvasElement | undefined): canvas is HTMLCanvasElement {
+  if (!canvas || typeof navigator === 'undefined' || /jsdom/i.test(navigator.userAgent)) return false;
+  return !!canvas.getContext?.('2d');
+}

@@ -1,0 +1,243 @@
+// @vitest-environment jsdom
+// The whole window with an in-memory host: start-up (demo, recovery, a document from the host),
+// keyboard shortcuts and nudges (issue 3: frequency 1/24 octave, gain 0.1 dB, Q 5 %, more with
+// Shift), file commands through the host, and a broken file refused with the reader's message.
+import { flushSync, mount, tick, unmount } from 'svelte';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import demoText from '../../assets/two-way-monitor.bqplan?raw';
+import hallText from '../../assets/three-way-hall.bqplan?raw';
+import type { HostResult, MenuCommand, PlanDocument } from '../../src/ipc';
+import { readPlanText } from '../../src/plan/read';
+import type { Plan } from '../../src/plan/types';
+import App from '../../renderer/src/App.svelte';
+import type { Host } from '../../renderer/src/host/host';
+import { documentState as doc } from '../../renderer/src/state/document.svelte';
+import { viewState as view } from '../../renderer/src/state/view.svelte';
+
+function read(text: string): Plan {
+  const r = readPlanText(text);
+  if (!r.ok) throw r.error;
+  return r.plan;
+}
+
+class FakeHost implements Host {
+  readonly kind = 'desktop' as const;
+  saved: { plan: Plan; path: string | null }[] = [];
+  autosaved: PlanDocument[] = [];
+  recovery: PlanDocument | null = null;
+  initial: HostResult<PlanDocument> | null = null;
+  nextOpen: HostResult<PlanDocument> = { ok: false, cancelled: true };
+  dirty: [boolean, string][] = [];
+  menu: ((c: MenuCommand) => void) | null = null;
+  async openPlan() {
+    return this.nextOpen;
+  }
+  async savePlan(plan: Plan, path: string | null) {
+    this.saved.push({ plan, path });
+    return { ok: true as const, value: path ?? '/plans/new.bqplan' };
+  }
+  async savePlanAs(plan: Plan) {
+    this.saved.push({ plan, path: null });
+    return { ok: true as const, value: '/plans/chosen.bqplan' };
+  }
+  async revertPlan(path: string) {
+    return { ok: true as const, value: { plan: read(demoText), path } };
+  }
+  async autosave(d: PlanDocument) {
+    this.autosaved.push(d);
+  }
+  async takeRecovery() {
+    const r = this.recovery;
+    this.recovery = null;
+    return r;
+  }
+  async discardRecovery() {}
+  async initialDocument() {
+    return this.initial;
+  }
+  setDirty(d: boolean, title: string) {
+    this.dirty.push([d, title]);
+  }
+  async saveText() {
+    return { ok: true as const, value: 'x.txt' };
+  }
+  async copyText() {
+    return { ok: true as const, value: true as const };
+  }
+  onMenuCommand(l: (c: MenuCommand) => void) {
+    this.menu = l;
+    return () => (this.menu = null);
+  }
+}
+
+// jsdom has no ResizeObserver (Svelte's bind:clientWidth uses one); the plots are not drawn here anyway.
+globalThis.ResizeObserver ??= class {
+  observe(): void {}
+  unobserve(): void {}
+  disconnect(): void {}
+};
+
+let target: HTMLElement;
+let app: Record<string, unknown> | null = null;
+let host: FakeHost;
+
+async function start(): Promise<void> {
+  app = mount(App, { target, props: { host } });
+  for (let i = 0; i < 5; i++) await tick();
+  flushSync();
+}
+
+function key(k: string, opts: KeyboardEventInit = {}): void {
+  window.dispatchEvent(new KeyboardEvent('keydown', { key: k, bubbles: true, ...opts }));
+  flushSync();
+}
+
+beforeEach(() => {
+  target = document.createElement('div');
+  document.body.appendChild(target);
+  host = new FakeHost();
+  view.resetRange();
+});
+
+afterEach(() => {
+  if (app) unmount(app);
+  app = null;
+  target.remove();
+});
+
+describe('start-up', () => {
+  it('opens the embedded demo plan on the chain with bands', async () => {
+    await start();
+    expect(doc.plan.name).toBe(read(demoText).name);
+    expect(doc.dirty).toBe(false);
+    expect(view.chainIn(doc.plan)).toBe('input');
+    expect(target.querySelectorAll('[data-testid="band-row"]')).toHaveLength(2);
+    expect(target.querySelector('[data-testid="caution"]')?.textContent).toMatch(/High levels damage hearing/);
+  });
+
+  it('opens the document the host was started with', async () => {
+    host.initial = { ok: true, value: { plan: read(hallText), path: '/plans/hall.bqplan' } };
+    await start();
+    expect(doc.plan.outputs.map((o) => o.id)).toEqual(['sub', 'low', 'mid', 'high']);
+    expect(doc.path).toBe('/plans/hall.bqplan');
+  });
+
+  it('offers recovered work and restores it as unsaved', async () => {
+    const rec = read(demoText);
+    rec.name = 'Recovered work';
+    host.recovery = { plan: rec, path: null };
+    await start();
+    const banner = target.querySelector('[data-testid="recovery"]');
+    expect(banner?.textContent).toMatch(/Recovered work/);
+    banner!.querySelector<HTMLButtonElement>('button.primary')!.click();
+    flushSync();
+    expect(doc.plan.name).toBe('Recovered work');
+    expect(doc.dirty).toBe(true);
+    expect(target.querySelector('[data-testid="recovery"]')).toBeNull();
+  });
+});
+
+describe('keyboard', () => {
+  beforeEach(async () => {
+    await start();
+    view.select('input', 'b2'); // 63 Hz, -4.5 dB, Q 4
+    flushSync();
+  });
+
+  it('arrows nudge frequency by 1/24 octave and gain by 0.1 dB; Shift for more', () => {
+    key('ArrowRight');
+    expect(doc.plan.input.bands[1].frequency).toBeCloseTo(63 * Math.pow(2, 1 / 24), 1);
+    key('ArrowUp');
+    expect(doc.plan.input.bands[1].gainDb).toBeCloseTo(-4.4, 12);
+    key('ArrowDown', { shiftKey: true });
+    expect(doc.plan.input.bands[1].gainDb).toBeCloseTo(-5.4, 12);
+    key('PageUp');
+    expect(doc.plan.input.bands[1].q).toBeCloseTo(4.2, 12); // 4 x 1.05
+  });
+
+  it('Ctrl+Z and Ctrl+Shift+Z (and Ctrl+Y) undo and redo', () => {
+    const p0 = doc.plan;
+    key('ArrowUp');
+    const p1 = doc.plan;
+    expect(p1).not.toBe(p0);
+    key('z', { ctrlKey: true });
+    expect(doc.plan).toBe(p0);
+    key('z', { ctrlKey: true, shiftKey: true });
+    expect(doc.plan).toBe(p1);
+    key('z', { metaKey: true });
+    key('y', { ctrlKey: true });
+    expect(doc.plan).toBe(p1);
+  });
+
+  it('Delete removes the selected band; number keys select bands', () => {
+    key('1');
+    expect(view.bandIn(doc.plan)).toBe('b1');
+    key('Delete');
+    expect(doc.plan.input.bands.map((b) => b.id)).toEqual(['b2']);
+    expect(view.bandIn(doc.plan)).toBe('b2');
+  });
+
+  it('Ctrl+S saves through the host and clears the dirty mark', async () => {
+    key('ArrowUp');
+    expect(doc.dirty).toBe(true);
+    key('s', { ctrlKey: true });
+    for (let i = 0; i < 5; i++) await tick();
+    expect(host.saved).toHaveLength(1);
+    expect(host.saved[0].plan).toBe(doc.plan);
+    expect(doc.dirty).toBe(false);
+    expect(doc.path).toBe('/plans/chosen.bqplan');
+    expect(host.dirty.at(-1)?.[0]).toBe(false);
+  });
+});
+
+describe('files through the host', () => {
+  it('a broken file is refused with the reader message and the open plan stays', async () => {
+    await start();
+    const before = doc.plan;
+    host.nextOpen = { ok: false, error: 'broken.bqplan: outputs[0].bands[0].q: must be > 0' };
+    host.menu!('open');
+    for (let i = 0; i < 5; i++) await tick();
+    flushSync();
+    expect(doc.plan).toBe(before);
+    const notice = target.querySelector('[data-testid="notice"]');
+    expect(notice?.getAttribute('role')).toBe('alert');
+    expect(notice?.textContent).toMatch(/outputs\[0\]\.bands\[0\]\.q: must be > 0/);
+  });
+
+  it('menu commands switch views and create a fresh plan with one full-range output', async () => {
+    await start();
+    host.menu!('view:zplane');
+    flushSync();
+    expect(target.querySelector('[data-testid="stability"]')?.textContent).toMatch(/Largest pole radius 0\.9\d+/);
+    host.menu!('view:time');
+    flushSync();
+    expect(view.view).toBe('time');
+    host.menu!('new');
+    flushSync();
+    expect(doc.plan.outputs).toHaveLength(1);
+    expect(doc.plan.outputs[0].name).toBe('Full range');
+    host.menu!('view:response');
+  });
+
+  it('a sample rate that leaves a band above Nyquist is refused with a message', async () => {
+    await start();
+    const select = target.querySelector<HTMLSelectElement>('[data-testid="sample-rate"]')!;
+    doc.apply({ ok: true, plan: { ...doc.plan, input: { bands: [...doc.plan.input.bands, { id: 'b3', type: 'peaking', frequency: 21000, gainDb: 1, q: 1, enabled: true }] } } });
+    select.value = 'custom';
+    select.dispatchEvent(new Event('change', { bubbles: true }));
+    flushSync();
+    const custom = target.querySelector<HTMLInputElement>('[data-testid="sample-rate-custom"]')!;
+    custom.focus();
+    custom.value = '32k';
+    custom.dispatchEvent(new Event('input', { bubbles: true }));
+    custom.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true }));
+    flushSync();
+    expect(doc.plan.sampleRate).toBe(48000);
+    expect(target.querySelector('[data-testid="sample-rate-custom-error"]')?.textContent).toMatch(/input chain band b3 at 21 kHz/);
+    custom.value = '96k';
+    custom.dispatchEvent(new Event('input', { bubbles: true }));
+    custom.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true }));
+    flushSync();
+    expect(doc.plan.sampleRate).toBe(96000);
+  });
+});
