@@ -129,6 +129,36 @@ describe('output gain, polarity and pure delay (plan-format.md, "Output")', () =
   });
 });
 
+describe('long delays and signal order', () => {
+  it('a 9999 ms delay keeps the phase exact to 1e-6 degrees (the checker asks 1e-4)', () => {
+    // Exact by hand: 997 Hz x 9.999 s = 9969.003 cycles, so the delay's phase is -0.003 x 360 =
+    // -1.08 degrees (mod 360). The kernel forms w D = (2 pi 997 / 48000) x 479952 in doubles:
+    // ~1e-16 relative of 6.3e4 rad, i.e. ~1e-9 degrees.
+    const r = cascadeWithGainDelay([], 1, (9999 * 48000) / 1000, normalizedOmega([997], 48000), 48000);
+    expect(angleDiffDeg(r.phaseRad[0] * RAD2DEG, -1.08)).toBeLessThan(1e-6);
+    expect(r.groupDelayMs[0]).toBeCloseTo(9999, 9);
+  });
+  it('an output\'s sections come in signal order: input bands, highPass, lowPass, its bands (plan-format.md)', () => {
+    const r = readPlanValue({
+      format: 'biquadrant.plan',
+      version: 2,
+      name: 'order',
+      sampleRate: 48000,
+      input: { bands: [{ id: 'i1', type: 'peaking', frequency: 100, gainDb: 1, q: 1 }, { id: 'i2', type: 'lowShelf', frequency: 50, gainDb: 2 }] },
+      outputs: [
+        {
+          id: 'mid',
+          bands: [{ id: 'e1', type: 'notch', frequency: 700, q: 4 }],
+          lowPass: { family: 'butterworth', order: 3, frequency: 3000 },
+          highPass: { family: 'bessel', order: 2, frequency: 300 },
+        },
+      ],
+    });
+    if (!r.ok) throw new Error(r.error.message);
+    expect(designPlan(r.plan)[0].sections.map((x) => x.from)).toEqual(['input/i1', 'input/i2', 'mid/highPass', 'mid/lowPass', 'mid/lowPass', 'mid/e1']);
+  });
+});
+
 describe('sum of outputs', () => {
   it('the sum of one output is that output', () => {
     const a = respond(-0.5, 3.3);
