@@ -1,0 +1,360 @@
+// End-to-end tests of the renderer in headless Debian Chromium (playwright-core): build the web
+// app, serve it on 127.0.0.1, and use it as a person would (typing, dragging a band handle,
+// undo/redo, save and reopen through the browser fallback of the host adapter, a broken file).
+// What is plotted is compared with the core's designedResponse for the same plan, computed
+// here in Node (the renderer must draw exactly the core's numbers). Screenshots go to
+// test-results/. Exits non-zero on any failure; the last line reads `e2e: N passed, M failed`.
+import { mkdirSync, readFileSync } from 'node:fs';
+import { register } from 'tsx/esm/api';
+import { buildWeb, launchBrowser, root, serveWeb } from './serve.mjs';
+import { openPlanText } from './bench-ui.mjs';
+
+register();
+const { designPlan } = await import('../../src/design/chain.ts');
+const { designedResponse } = await import('../../src/response/chain-response.ts');
+const { readPlanText } = await import('../../src/plan/read.ts');
+
+const OUT = `${root}/test-results`;
+mkdirSync(OUT, { recursive: true });
+
+let passed = 0;
+let failed = 0;
+async function check(name, fn) {
+  try {
+    await fn();
+    passed++;
+    console.log(`  ok   ${name}`);
+  } catch (e) {
+    failed++;
+    console.log(`  FAIL ${name}\n       ${(e && e.stack) || e}`);
+  }
+}
+
+function assert(cond, message) {
+  if (!cond) throw new Error(message);
+}
+
+/**
+ * The plotted curves against the core. Same code path, so the tolerance is floating-point noise
+ * (1e-6 dB, degrees, ms); the core may use its WebAssembly kernel in the page and plain JS here.
+ */
+function comparePlotted(plotted, plan) {
+  const core = designedResponse(designPlan(plan), plotted.frequencies, plan.sampleRate);
+  const byId = new Map(core.outputs.map((o) => [`out:${o.id}`, o.response]));
+  byId.set('sum', core.sum);
+  let compared = 0;
+  let worst = 0;
+  for (const [kind, field, scale] of [
+    ['magnitude', 'magnitudeDb', 1],
+    ['phase', plotted.phaseMode === 'wrapped' ? 'phaseRad' : 'phaseUnwrappedRad', 180 / Math.PI],
+    ['groupDelay', 'groupDelayMs', 1],
+  ]) {
+    for (const curve of plotted[kind]) {
+      const ref = byId.get(curve.id);
+      if (!ref) continue;
+      assert(curve.y.length === plotted.frequencies.length, `${kind} ${curve.id}: ${curve.y.length} points for ${plotted.frequencies.length} frequencies`);
+      for (let i = 0; i < curve.y.length; i++) {
+        const want = ref[field][i] * scale;
+        const got = curve.y[i];
+        if (!Number.isFinite(want)) {
+          assert(got === null || !Number.isFinite(got), `${kind} ${curve.id}[${i}]: core has no value, plot shows ${got}`);
+          continue;
+        }
+        let d = Math.abs(got - want);
+        // Wrapped phase: +180 and -180 degrees are the same point.
+        if (kind === 'phase' && plotted.phaseMode === 'wrapped') d = Math.min(d, Math.abs(360 - d));
+        worst = Math.max(worst, d);
+        assert(d < 1e-6, `${kind} ${curve.id} at ${plotted.frequencies[i].toFixed(2)} Hz: plotted ${got}, core ${want}`);
+      }
+      compared++;
+    }
+  }
+  assert(compared >= 3 * (plan.outputs.length + 1) - 3 * plan.outputs.filter((o) => o.mute).length * 0, `only ${compared} curves compared`);
+  return { compared, worst };
+}
+
+async function main() {
+  if (!process.env.NO_BUILD) await buildWeb();
+  const server = await serveWeb();
+  const browser = await launchBrowser();
+  const errors = [];
+  try {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, acceptDownloads: true });
+    const page = await context.newPage();
+    page.on('console', (m) => {
+      if (m.type() === 'error' || m.type() === 'warning') errors.push(`console ${m.type()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => errors.push(`page error: ${e.message}`));
+    const hook = (fn, arg) => page.evaluate(fn, arg);
+    const plan = () => hook(() => window.__biquadrant.plan());
+    const plotted = () => hook(() => window.__biquadrant.plotted());
+
+    await page.goto(server.url);
+    await page.waitForFunction(() => window.__biquadrant?.plotted()?.magnitude.length > 0);
+
+    await check('opens the embedded demo plan and plots it as the core computes it', async () => {
+      const p = await plan();
+      const demo = readPlanText(readFileSync(`${root}/assets/two-way-monitor.bqplan`, 'utf8'));
+      assert(demo.ok && p.name === demo.plan.name, `demo not loaded: ${p.name}`);
+      const pl = await plotted();
+      assert(Math.abs(pl.range[0] - 20) < 1e-9 && Math.abs(pl.range[1] - 20000) < 1e-9, `range ${pl.range}`);
+      assert(pl.frequencies.length >= 500 && pl.frequencies.length <= 1300, `${pl.frequencies.length} points for a ~1200 px plot`);
+      const sum = pl.magnitude.find((c) => c.id === 'sum');
+      assert(sum && sum.width > Math.max(...pl.magnitude.filter((c) => c.id !== 'sum').map((c) => c.width)), 'the sum is drawn thicker');
+      comparePlotted(pl, p);
+      await page.screenshot({ path: `${OUT}/01-demo-1280.png` });
+    });
+
+    await check('typing units into the band fields edits the plan; the plot follows the core', async () => {
+      await page.getByTestId('chain-input').click();
+      await page.getByTestId('band-row').nth(1).click();
+      const f = page.getByTestId('band-frequency');
+      await f.fill('2k2');
+      await f.press('Enter');
+      const g = page.getByTestId('band-gain');
+      await g.fill('+3 dB');
+      await g.press('Enter');
+      const q = page.getByTestId('band-q');
+      await q.fill('1/3 oct');
+      await q.press('Enter');
+      const b = (await plan()).input.bands[1];
+      assert(b.frequency === 2200 && b.gainDb === 3, `band is ${JSON.stringify(b)}`);
+      assert(Math.abs(b.q - 4.3) < 0.05, `1/3 octave gave Q ${b.q} (about 4.3 at 2.2 kHz, 48 kHz)`);
+      assert((await f.inputValue()) === '2.2 kHz', `field shows ${await f.inputValue()}`);
+      comparePlotted(await plotted(), await plan());
+      await page.screenshot({ path: `${OUT}/02-typed-band.png` });
+    });
+
+    await check('a bad entry is refused in place with the reason; the plan keeps its value', async () => {
+      const before = await plan();
+      const g = page.getByTestId('band-gain');
+      await g.fill('loud');
+      await g.press('Enter');
+      const err = page.getByTestId('band-gain-error');
+      assert((await err.textContent()).includes('not a gain'), 'no reason shown');
+      const f = page.getByTestId('band-frequency');
+      await f.fill('30k');
+      await f.press('Enter');
+      assert((await page.getByTestId('band-frequency-error').textContent()).includes('Nyquist'), 'no Nyquist reason');
+      const after = await plan();
+      assert(JSON.stringify(after) === JSON.stringify(before), 'plan changed after refused entries');
+      assert(!(await page.locator('body').innerText()).includes('NaN'), 'NaN on screen');
+      await page.screenshot({ path: `${OUT}/03-refused-entry.png` });
+      await f.press('Escape');
+      await g.focus();
+      await g.press('Escape');
+    });
+
+    await check('dragging a band handle moves frequency and gain as one undo step; the plot follows', async () => {
+      const before = await plan();
+      const b0 = before.input.bands[1];
+      const h = await hook(() => window.__biquadrant.handle('b2'));
+      assert(h, 'handle b2 not on the plot');
+      await page.mouse.move(h.x, h.y);
+      await page.mouse.down();
+      for (let i = 1; i <= 10; i++) await page.mouse.move(h.x - 8 * i, h.y + 3 * i);
+      const mid = await plotted();
+      comparePlotted(mid, await plan()); // overlay curves mid-drag are the core's too
+      await page.mouse.up();
+      const after = await plan();
+      const b1 = after.input.bands[1];
+      assert(b1.frequency < b0.frequency * 0.8, `frequency ${b0.frequency} -> ${b1.frequency}`);
+      assert(b1.gainDb < b0.gainDb - 1, `gain ${b0.gainDb} -> ${b1.gainDb}`);
+      comparePlotted(await plotted(), after);
+      await page.screenshot({ path: `${OUT}/04-dragged-band.png` });
+      await page.keyboard.press('Control+z');
+      const undone = await plan();
+      assert(JSON.stringify(undone) === JSON.stringify(before), 'one undo did not take back the whole drag');
+      await page.keyboard.press('Control+Shift+z');
+      assert(JSON.stringify(await plan()) === JSON.stringify(after), 'redo did not restore the drag');
+    });
+
+    await check('the hover readout shows the frequency and the plotted values', async () => {
+      const box = await page.getByTestId('plot-magnitude').boundingBox();
+      await page.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.5);
+      const text = await page.getByTestId('readout').innerText();
+      assert(/Hz/.test(text) && /Sum/.test(text) && /Woofer/.test(text), `readout: ${text}`);
+      await page.mouse.move(box.x + box.width * 0.5, box.y - 40);
+    });
+
+    await check('wheel zooms the shared frequency axis and reset brings back 20 Hz - 20 kHz', async () => {
+      const box = await page.getByTestId('plot-phase').boundingBox();
+      await page.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.5);
+      await page.mouse.wheel(0, -300);
+      const z = await plotted();
+      assert(z.range[0] > 25 && z.range[1] < 15000, `zoomed range ${z.range}`);
+      comparePlotted(z, await plan());
+      await page.getByRole('button', { name: 'Reset zoom' }).click();
+      const r = await plotted();
+      assert(Math.abs(r.range[0] - 20) < 1e-9 && Math.abs(r.range[1] - 20000) < 1e-9, `reset range ${r.range}`);
+    });
+
+    await check('keyboard nudges and undo/redo buttons', async () => {
+      await page.getByTestId('band-row').nth(1).click();
+      const f0 = (await plan()).input.bands[1].frequency;
+      await page.keyboard.press('ArrowRight');
+      const f1 = (await plan()).input.bands[1].frequency;
+      const want = f0 * Math.pow(2, 1 / 24);
+      assert(Math.abs(f1 - want) <= 0.6, `ArrowRight: ${f0} -> ${f1}, want ${want.toFixed(1)} (1/24 octave)`);
+      await page.getByTestId('undo').click();
+      assert((await plan()).input.bands[1].frequency === f0, 'undo button');
+      await page.getByTestId('redo').click();
+      assert((await plan()).input.bands[1].frequency === f1, 'redo button');
+    });
+
+    let savedText = '';
+    await check('Save downloads the plan; Open reads it back through the file picker', async () => {
+      const download = page.waitForEvent('download');
+      await page.getByTestId('save').click();
+      const d = await download;
+      assert(d.suggestedFilename().endsWith('.bqplan'), `file name ${d.suggestedFilename()}`);
+      savedText = readFileSync(await d.path(), 'utf8');
+      const r = readPlanText(savedText);
+      assert(r.ok, `saved file does not read: ${r.ok || r.error.message}`);
+      const current = await plan();
+      assert(JSON.stringify(r.plan) === JSON.stringify(current), 'saved plan differs from the plan on screen');
+      assert(!(await hook(() => window.__biquadrant.dirty())), 'still marked unsaved after saving');
+      // Change something, then reopen the saved file.
+      await page.keyboard.press('ArrowUp');
+      assert(await hook(() => window.__biquadrant.dirty()), 'edit did not mark the plan unsaved');
+      page.once('dialog', (dlg) => dlg.accept()); // "discard unsaved changes?"
+      await openPlanText(page, d.suggestedFilename(), savedText);
+      await page.waitForFunction((t) => JSON.stringify(window.__biquadrant.plan()) === t, JSON.stringify(r.plan));
+      comparePlotted(await plotted(), await plan());
+    });
+
+    await check('a broken file is refused with the reader message (field path) and nothing is lost', async () => {
+      const before = await plan();
+      const broken = JSON.parse(savedText);
+      broken.outputs[0].bands = [{ id: 'b1', type: 'peaking', frequency: 1000, gainDb: 3, q: -2, enabled: true }];
+      await openPlanText(page, 'broken.bqplan', JSON.stringify(broken));
+      const notice = page.getByTestId('notice');
+      await notice.waitFor();
+      const text = await notice.innerText();
+      assert(text.includes('outputs[0].bands[0].q: must be > 0'), `notice: ${text}`);
+      assert((await notice.getAttribute('role')) === 'alert', 'the refusal is not announced');
+      assert(JSON.stringify(await plan()) === JSON.stringify(before), 'plan changed after a broken file');
+      await page.screenshot({ path: `${OUT}/05-broken-file.png` });
+      await openPlanText(page, 'not-json.bqplan', '{"format": "biquadrant.plan", ');
+      await page.waitForFunction(() => document.querySelector('[data-testid="notice"]')?.textContent.includes('not valid JSON'));
+      await page.getByRole('button', { name: 'Dismiss' }).click();
+    });
+
+    await check('sample rate change redesigns every section; a rate that cuts a band is refused', async () => {
+      await page.getByTestId('sample-rate').selectOption('96000');
+      await page.waitForFunction(() => window.__biquadrant.plan().sampleRate === 96000);
+      comparePlotted(await plotted(), await plan());
+      // Add a band at 20 kHz, then ask for 32 kHz: Nyquist 16 kHz would cut it.
+      await page.getByTestId('chain-input').click();
+      await page.getByTestId('band-add').click();
+      const f = page.getByTestId('band-frequency');
+      await f.fill('20k');
+      await f.press('Enter');
+      await page.getByTestId('sample-rate').selectOption('custom');
+      const c = page.getByTestId('sample-rate-custom');
+      await c.fill('32k');
+      await c.press('Enter');
+      const err = await page.getByTestId('sample-rate-custom-error').innerText();
+      assert(/Nyquist would be 16 kHz/.test(err) && /20 kHz/.test(err), `refusal: ${err}`);
+      assert((await plan()).sampleRate === 96000, 'rate changed anyway');
+      await c.press('Escape');
+      await page.getByTestId('sample-rate').selectOption('48000');
+      await page.waitForFunction(() => window.__biquadrant.plan().sampleRate === 48000);
+    });
+
+    await check('outputs: mute leaves the output out of the sum; invert flips it', async () => {
+      const rows = page.getByTestId('output-row');
+      await rows.nth(1).getByRole('button', { name: 'Ø' }).click();
+      let p = await plan();
+      assert(p.outputs[1].invert === true, 'invert');
+      comparePlotted(await plotted(), p);
+      await rows.nth(0).getByRole('button', { name: 'M' }).click();
+      p = await plan();
+      assert(p.outputs[0].mute === true, 'mute');
+      const pl = await plotted();
+      comparePlotted(pl, p); // the core's sum leaves muted outputs out
+      await page.screenshot({ path: `${OUT}/06-muted-inverted.png` });
+      await page.keyboard.press('Control+z');
+      await page.keyboard.press('Control+z');
+      p = await plan();
+      assert(!p.outputs[0].mute && !p.outputs[1].invert, 'undo mute and invert');
+    });
+
+    await check('status: headroom per output, warnings, and the exposure calculator (NIOSH, OSHA)', async () => {
+      const chips = page.getByTestId('headroom-chip');
+      assert((await chips.count()) === (await plan()).outputs.length, 'one headroom chip per output');
+      await page.getByTestId('caution').click();
+      const level = page.getByTestId('exposure-level');
+      await level.fill('100');
+      const niosh = await page.getByTestId('exposure-niosh').innerText();
+      const osha = await page.getByTestId('exposure-osha').innerText();
+      // NIOSH REL: 100 dBA -> 15 min; OSHA Table G-16: 100 dBA -> 2 h.
+      assert(niosh.startsWith('15 min') && osha.startsWith('2 h'), `${niosh} / ${osha}`);
+      const text = await page.getByTestId('exposure').innerText();
+      assert(/98-126/.test(text) && /1910\.95/.test(text) && /regulations/.test(text), 'sources or deferral missing');
+      await page.screenshot({ path: `${OUT}/07-exposure.png` });
+      await page.getByRole('button', { name: 'Close' }).click();
+    });
+
+    await check('a tweeter without a high-pass edge is flagged', async () => {
+      await page.getByTestId('output-row').nth(1).locator('button.pick').click();
+      await page.getByTestId('edge-highPass-on').uncheck();
+      const w = page.getByTestId('warnings-button');
+      await w.waitFor();
+      await w.click();
+      const text = await page.getByRole('region', { name: 'Warnings' }).innerText();
+      assert(/no high-pass edge/.test(text), `warnings: ${text}`);
+      await page.screenshot({ path: `${OUT}/08-warning-no-high-pass.png` });
+      await w.click();
+      await page.keyboard.press('Control+z');
+      assert((await plan()).outputs[1].highPass !== null, 'undo restores the edge');
+    });
+
+    await check('Z-plane, Time and Export views draw without errors', async () => {
+      await page.getByTestId('view-zplane').click();
+      const s = await page.getByTestId('stability').innerText();
+      assert(/Largest pole radius 0\.\d+/.test(s) && /stable/.test(s), `stability: ${s}`);
+      await page.screenshot({ path: `${OUT}/09-zplane.png` });
+      await page.getByTestId('view-time').click();
+      await page.waitForTimeout(200);
+      await page.screenshot({ path: `${OUT}/10-time.png` });
+      await page.getByTestId('view-export').click();
+      await page.waitForTimeout(200);
+      await page.screenshot({ path: `${OUT}/11-export.png` });
+      await page.getByTestId('view-response').click();
+      await page.waitForFunction(() => window.__biquadrant.plotted() !== null);
+      comparePlotted(await plotted(), await plan());
+    });
+
+    await check('readable at 1000 px wide; the three-way demo plots as the core computes it', async () => {
+      await page.setViewportSize({ width: 1000, height: 800 });
+      page.once('dialog', (dlg) => dlg.accept());
+      await openPlanText(page, 'three-way-hall.bqplan', readFileSync(`${root}/assets/three-way-hall.bqplan`, 'utf8'));
+      await page.waitForFunction(() => window.__biquadrant.plan().outputs.length === 4);
+      await page.waitForTimeout(300);
+      const pl = await plotted();
+      assert(pl.frequencies.length >= 400 && pl.frequencies.length <= 1000, `${pl.frequencies.length} points at 1000 px`);
+      comparePlotted(pl, await plan());
+      const overflow = await hook(() => document.documentElement.scrollWidth - window.innerWidth);
+      assert(overflow <= 0, `page scrolls sideways by ${overflow} px`);
+      await page.screenshot({ path: `${OUT}/12-three-way-1000.png` });
+    });
+
+    await check('no console errors or page errors', async () => {
+      assert(errors.length === 0, errors.join('\n'));
+    });
+  } finally {
+    await browser.close();
+    await server.close();
+  }
+}
+
+main()
+  .catch((e) => {
+    failed++;
+    console.log(`  FAIL setup\n       ${(e && e.stack) || e}`);
+  })
+  .finally(() => {
+    console.log(`e2e: ${passed} passed, ${failed} failed`);
+    process.exitCode = failed > 0 ? 1 : 0;
+  });
