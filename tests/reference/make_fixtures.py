@@ -459,6 +459,7 @@ def main():
     meta = dict(VERSIONS)
     meta['generator'] = 'tests/reference/make_fixtures.py'
     meta['ratiosOfFc'] = RATIOS
+    meta['sosfreqzCall'] = 'scipy.signal.sosfreqz(sos, worN=numpy.array(freqs), fs=sampleRate); magnitudeDb = 20 log10|h|, phaseDeg = numpy.degrees(numpy.angle(h))'
     write('butterworth.json', dict(meta, note='scipy.signal.butter + sosfreqz; sosExact = 50-digit group delay of the same sos; design = exact analog-prototype evaluation'), butter_cases())
     write('bessel.json', dict(meta, note='scipy.signal.bessel (norm phase/delay/mag) + sosfreqz; sosExact and design as in butterworth.json'), bessel_cases())
     write('linkwitz-riley.json', dict(meta, note='butter(order/2) squared'), lr_cases())
