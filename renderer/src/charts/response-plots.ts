@@ -18,6 +18,7 @@
  */
 import type { ChartConfiguration, Plugin, Scale } from 'chart.js';
 import type { Response } from '../../../src/response/chain-response';
+import { inkOn } from '../lib/palette';
 import { Chart, frequencyTickLabel, installFrequencyTicks, readTheme, Y_AXIS_WIDTH, type Theme } from './setup';
 
 export type PlotKind = 'magnitude' | 'phase' | 'groupDelay';
@@ -115,7 +116,9 @@ export function groupDelayRange(curves: readonly Float64Array[]): [number, numbe
   const lo = Math.min(0, v[Math.floor(0.02 * (k - 1))]);
   const hi = Math.max(1, v[Math.ceil(0.98 * (k - 1))]);
   const step = niceStep(hi - lo);
-  return [Math.floor(lo / step) * step - (lo < 0 ? 0 : step * 0.5), Math.ceil((hi * 1.08) / step) * step];
+  // Whole steps, so the axis ends on labelled ticks; a step below zero keeps 0 ms off the edge.
+  const min = Math.floor(lo / step) * step;
+  return [min === 0 ? -step : min, Math.ceil((hi * 1.08) / step) * step];
 }
 
 export function unwrappedPhaseRange(curves: readonly Float64Array[]): [number, number] {
@@ -491,7 +494,7 @@ export class ResponsePlots {
       ctx.lineWidth = h.selected ? 2.5 : 2;
       ctx.strokeStyle = h.selected ? t.text : h.color;
       ctx.stroke();
-      ctx.fillStyle = h.selected ? '#000' : t.text;
+      ctx.fillStyle = h.selected ? inkOn(h.color) : t.text;
       ctx.fillText(String(h.number), x, y + 0.5);
     }
     ctx.restore();

@@ -46,3 +46,18 @@ export function canDraw(canvas: HTMLCanvasElement | undefined): canvas is HTMLCa
   if (!canvas || typeof navigator === 'undefined' || /jsdom/i.test(navigator.userAgent)) return false;
   return !!canvas.getContext?.('2d');
 }
+
+/**
+ * Black or white, whichever reads better on `color` (#rrggbb; anything else gets black): the
+ * WCAG 2 relative luminance, with the crossover where both give the same contrast ratio.
+ */
+export function inkOn(color: string): string {
+  const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})/i.exec(color);
+  if (!m) return '#000';
+  const lin = (c: string) => {
+    const v = parseInt(c, 16) / 255;
+    return v <= 0.03928 ? v / 12.92 : Math.pow((v + 0.055) / 1.055, 2.4);
+  };
+  const L = 0.2126 * lin(m[1]) + 0.7152 * lin(m[2]) + 0.0722 * lin(m[3]);
+  return L > 0.179 ? '#000' : '#fff';
+}
