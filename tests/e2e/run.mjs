@@ -340,6 +340,28 @@ async function main() {
       await page.screenshot({ path: `${OUT}/12-three-way-1000.png` });
     });
 
+    await check('unsaved work is autosaved when idle and offered back after a reload', async () => {
+      await page.getByTestId('chain-input').click();
+      await page.getByTestId('band-row').nth(0).click();
+      await page.getByTestId('band-frequency').fill('27');
+      await page.getByTestId('band-frequency').press('Enter');
+      const edited = await plan();
+      assert(await hook(() => window.__biquadrant.dirty()), 'edit not marked unsaved');
+      await page.waitForFunction(() => localStorage.getItem('biquadrant.recovery.v1') !== null, null, { timeout: 8000 });
+      const onDialog = (d) => d.accept(); // the "leave with unsaved changes?" prompt
+      page.on('dialog', onDialog);
+      await page.reload();
+      page.off('dialog', onDialog);
+      const banner = page.getByTestId('recovery');
+      await banner.waitFor();
+      assert((await banner.innerText()).includes(edited.name), 'banner does not name the plan');
+      await banner.getByRole('button', { name: 'Restore it' }).click();
+      assert(JSON.stringify(await plan()) === JSON.stringify(edited), 'restored plan differs');
+      assert(await hook(() => window.__biquadrant.dirty()), 'restored work should stay unsaved');
+      await page.waitForFunction(() => window.__biquadrant.plotted()?.magnitude.length > 0);
+      comparePlotted(await plotted(), edited);
+    });
+
     await check('no console errors or page errors', async () => {
       assert(errors.length === 0, errors.join('\n'));
     });
