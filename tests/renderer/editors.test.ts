@@ -9,7 +9,7 @@ import { qFromBandwidthOctaves } from '../../src/design/cookbook';
 import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
 import { parseFrequency } from '../../src/ui/units';
-import { INPUT } from '../../src/ui/edits';
+import { addBand, INPUT } from '../../src/ui/edits';
 import ChainEditor from '../../renderer/src/components/ChainEditor.svelte';
 import NumberField from '../../renderer/src/components/NumberField.svelte';
 import OutputList from '../../renderer/src/components/OutputList.svelte';
@@ -274,5 +274,21 @@ describe('document history', () => {
     expect(doc.apply({ ok: false, reason: 'no' })).toBe('no');
     expect(doc.plan).toBe(p0);
     expect(doc.canUndo).toBe(false);
+  });
+});
+
+describe('refusals stay with their band', () => {
+  it('a refused entry does not carry over when another band is selected', () => {
+    view.select(INPUT, 'b2');
+    app = mount(ChainEditor, { target });
+    flushSync();
+    type(field('band-gain'), 'loud');
+    expect(errorOf('band-gain')).toMatch(/not a gain/);
+    // Another peaking band: same fields, so only the keyed editor starts it clean.
+    doc.apply(addBand(doc.plan, INPUT, { frequency: 500, gainDb: 2, q: 1 }));
+    view.select(INPUT, 'b3');
+    flushSync();
+    expect(errorOf('band-gain')).toBeNull();
+    expect(field('band-gain').value).toBe('+2.0 dB');
   });
 });
