@@ -36,8 +36,6 @@ export interface TestHook {
   plotUpdates: number;
   /** Milliseconds spent in each plot update (Chart.js update and draw of the three plots). */
   drawTimes: number[];
-  /** Milliseconds from a drag's input event to the end of the script work it caused (model, views, plots). */
-  scriptTimes: number[];
   /** Milliseconds from a drag's input event to the next animation frame callback (before paint). */
   rafTimes: number[];
 }
@@ -59,7 +57,6 @@ export const testHook: TestHook = {
   frameTimes: [],
   plotUpdates: 0,
   drawTimes: [],
-  scriptTimes: [],
   rafTimes: [],
 };
 
@@ -69,8 +66,6 @@ export function installTestHook(): void {
 
 /** Records the time from an input event to the frame after it was drawn (after paint). */
 export function recordFrame(inputTime: number): void {
-  // After the rest of this task's microtasks (Svelte flushes the other views there).
-  setTimeout(() => testHook.scriptTimes.push(performance.now() - inputTime), 0);
   requestAnimationFrame(() => {
     testHook.rafTimes.push(performance.now() - inputTime);
     const ch = new MessageChannel();
