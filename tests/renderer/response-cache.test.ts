@@ -1,6 +1,5 @@
 // The plot cache recomputes only what an edit changed (issue 3, "Speed"), and what it returns is
 // the core's designedResponse for the same plan.
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { designPlan } from '../../src/design/chain';
 import { designedResponse, logFrequencies } from '../../src/response/chain-response';
@@ -8,9 +7,10 @@ import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
 import * as edits from '../../src/ui/edits';
 import { ResponseCache } from '../../renderer/src/lib/response-cache';
+import hallText from '../../assets/three-way-hall.bqplan?raw';
 
 function hall(): Plan {
-  const r = readPlanText(readFileSync(new URL('../../assets/three-way-hall.bqplan', import.meta.url), 'utf8'));
+  const r = readPlanText(hallText);
   if (!r.ok) throw r.error;
   return r.plan;
 }
