@@ -177,6 +177,21 @@ async function main() {
       await page.mouse.move(box.x + box.width * 0.5, box.y - 40);
     });
 
+    await check('clicking an output curve selects that output for editing', async () => {
+      const pl = await plotted();
+      const i = pl.frequencies.findIndex((f) => f >= 300);
+      const woofer = pl.magnitude.find((c) => c.id === 'out:woofer').y[i];
+      const tweeterAt = pl.magnitude.find((c) => c.id === 'out:tweeter').y[pl.frequencies.findIndex((f) => f >= 1500)];
+      // The tweeter at 1.5 kHz sits well below the woofer and the sum there.
+      let p = await hook(({ f, db }) => window.__biquadrant.magnitudePoint(f, db), { f: pl.frequencies[pl.frequencies.findIndex((f) => f >= 1500)], db: tweeterAt });
+      await page.mouse.click(p.x, p.y);
+      assert((await page.getByTestId('output-name').inputValue()) === 'Tweeter', 'tweeter not selected');
+      p = await hook(({ f, db }) => window.__biquadrant.magnitudePoint(f, db), { f: pl.frequencies[i], db: woofer - 20 });
+      await page.mouse.click(p.x, p.y); // empty space: the selection stays
+      assert((await page.getByTestId('output-name').inputValue()) === 'Tweeter', 'a click on empty space changed the selection');
+      await page.getByTestId('chain-input').click();
+    });
+
     await check('wheel zooms the shared frequency axis and reset brings back 20 Hz - 20 kHz', async () => {
       const box = await page.getByTestId('plot-phase').boundingBox();
       await page.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.5);

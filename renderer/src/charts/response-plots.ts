@@ -74,7 +74,8 @@ export interface PlotCallbacks {
   onHandleDrag(id: string, d: DragDelta): void;
   onHandleUp(id: string): void;
   onHandleWheel(id: string, qRatio: number): void;
-  onBackgroundClick(): void;
+  /** A click (no drag) on or near a curve of the magnitude plot. */
+  onCurveClick(curveId: string): void;
 }
 
 type XY = { x: number; y: number };
@@ -531,6 +532,35 @@ export class ResponsePlots {
     return best;
   }
 
+  /** Canvas-relative pixel of (Hz, dB) on the magnitude plot. */
+  magnitudePixel(frequencyHz: number, db: number): { x: number; y: number } | null {
+    const chart = this.charts.magnitude;
+    if (!chart.chartArea) return null;
+    return { x: chart.scales.x.getPixelForValue(frequencyHz), y: chart.scales.y.getPixelForValue(db) };
+  }
+
+  /** The magnitude curve passing within a few pixels of (x, y), nearest first; the sum last. */
+  #curveAt(x: number, y: number): string | null {
+    const frame = this.#frame;
+    const chart = this.charts.magnitude;
+    if (!frame || !chart.chartArea) return null;
+    const f = chart.scales.x.getValueForPixel(x)!;
+    const ys = chart.scales.y;
+    let best: string | null = null;
+    let bestD = 7;
+    for (const c of frame.curves) {
+      if (c.magnitudeOnly || c.id === 'sum') continue;
+      const v = valueAt(frame.frequencies, c.response.magnitudeDb, f);
+      if (!Number.isFinite(v)) continue;
+      const d = Math.abs(ys.getPixelForValue(v) - y);
+      if (d < bestD) {
+        bestD = d;
+        best = c.id;
+      }
+    }
+    return best;
+  }
+
   #inArea(chart: Chart<'line', XY[]>, x: number, y: number): boolean {
     const a = chart.chartArea;
     return !!a && x >= a.left - HANDLE_RADIUS && x <= a.right + HANDLE_RADIUS && y >= a.top - HANDLE_RADIUS && y <= a.bottom + HANDLE_RADIUS;
@@ -600,8 +630,9 @@ export class ResponsePlots {
       if (d?.kind === 'handle') {
         canvas.style.cursor = 'grab';
         this.#cb.onHandleUp(d.id);
-      } else if (d?.kind === 'pan' && !d.moved && e.type === 'pointerup') {
-        this.#cb.onBackgroundClick();
+      } else if (d?.kind === 'pan' && !d.moved && e.type === 'pointerup' && kind === 'magnitude') {
+        const id = this.#curveAt(e.offsetX, e.offsetY);
+        if (id) this.#cb.onCurveClick(id);
       }
     };
     on('pointerup', end);

@@ -29,6 +29,8 @@ export interface TestHook {
   plotted: () => Plotted | null;
   /** Page (client) coordinates of a band handle of the selected chain. */
   handle: (bandId: string) => { x: number; y: number } | null;
+  /** Page (client) coordinates of a point (Hz, dB) of the magnitude plot. */
+  magnitudePoint: (frequencyHz: number, db: number) => { x: number; y: number } | null;
   cacheStats: () => (CacheStats & { chartUpdates: number; overlayDraws: number }) | null;
   /** Milliseconds per drag frame, appended as frames are painted. */
   frameTimes: number[];
@@ -53,6 +55,7 @@ export const testHook: TestHook = {
   dirty: () => false,
   plotted: () => null,
   handle: () => null,
+  magnitudePoint: () => null,
   cacheStats: () => null,
   frameTimes: [],
   plotUpdates: 0,
