@@ -199,6 +199,11 @@ async function main() {
       const z = await plotted();
       assert(z.range[0] > 25 && z.range[1] < 15000, `zoomed range ${z.range}`);
       comparePlotted(z, await plan());
+      await page.getByTestId('phase-mode').selectOption('unwrapped');
+      const u = await plotted();
+      assert(u.phaseMode === 'unwrapped', 'phase mode');
+      comparePlotted(u, await plan()); // unwrapped along the same grid as the core's
+      await page.getByTestId('phase-mode').selectOption('wrapped');
       await page.getByRole('button', { name: 'Reset zoom' }).click();
       const r = await plotted();
       assert(Math.abs(r.range[0] - 20) < 1e-9 && Math.abs(r.range[1] - 20000) < 1e-9, `reset range ${r.range}`);

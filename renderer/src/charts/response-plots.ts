@@ -134,7 +134,10 @@ export function unwrappedPhaseRange(curves: readonly Float64Array[]): [number, n
       }
     }
   if (!Number.isFinite(lo)) return [-180, 180];
-  return [Math.floor(lo / 180) * 180 - 90, Math.ceil(hi / 180) * 180 + 90];
+  // Whole half-turns, so the ends are labelled ticks.
+  const a = Math.floor(lo / 180) * 180;
+  const b = Math.ceil(hi / 180) * 180;
+  return b - a < 360 ? [a - 180, b + 180] : [a, b];
 }
 
 /** Linear interpolation of `y` at `f` on a log-frequency grid. */
@@ -311,7 +314,7 @@ export class ResponsePlots {
         if (!hot) this.#yRanges.phase = frame.phaseMode === 'wrapped' ? [-180, 180] : unwrappedPhaseRange(all.map((c) => this.#source(c, kind, frame.phaseMode)));
         [y.min, y.max] = this.#yRanges.phase;
         const span = y.max - y.min;
-        ticks.stepSize = frame.phaseMode === 'wrapped' ? 90 : [90, 180, 360, 720, 1440, 2880, 5760].find((s) => span / s <= 6) ?? 11520;
+        ticks.stepSize = frame.phaseMode === 'wrapped' ? 90 : [180, 360, 720, 1440, 2880, 5760].find((s) => span / s <= 6) ?? 11520;
       } else {
         if (!hot) this.#yRanges.groupDelay = groupDelayRange(all.map((c) => this.#source(c, kind, frame.phaseMode)));
         [y.min, y.max] = this.#yRanges.groupDelay;
