@@ -292,3 +292,22 @@ describe('refusals stay with their band', () => {
     expect(field('band-gain').value).toBe('+2.0 dB');
   });
 });
+
+describe('plan notes', () => {
+  it('edits the notes as one undoable step and removes them when emptied', async () => {
+    const { default: PlanNotes } = await import('../../renderer/src/components/PlanNotes.svelte');
+    app = mount(PlanNotes, { target });
+    flushSync();
+    const area = target.querySelector<HTMLTextAreaElement>('[data-testid="plan-notes"]')!;
+    expect(area.value).toBe(demo().notes);
+    area.value = 'Measured at the mix position.';
+    area.dispatchEvent(new Event('change', { bubbles: true }));
+    flushSync();
+    expect(doc.plan.notes).toBe('Measured at the mix position.');
+    area.value = '  ';
+    area.dispatchEvent(new Event('change', { bubbles: true }));
+    expect('notes' in doc.plan).toBe(false);
+    doc.undo();
+    expect(doc.plan.notes).toBe('Measured at the mix position.');
+  });
+});
