@@ -47,8 +47,8 @@ describe('createHost', () => {
     const plan = demo();
     expect(await host.savePlan(plan, '/p/a.bqplan')).toEqual({ ok: true, value: '/p/a.bqplan' });
     expect(api.savePlan).toHaveBeenCalledWith(plan, '/p/a.bqplan');
-    host.setDirty(true, 'x');
-    expect(api.setDirty).toHaveBeenCalledWith(true, 'x');
+    host.setDirty(true, 'x', '/plans/x.bqplan');
+    expect(api.setDirty).toHaveBeenCalledWith(true, 'x', '/plans/x.bqplan');
     const seen: MenuCommand[] = [];
     const off = host.onMenuCommand((c) => seen.push(c));
     listener!('save');

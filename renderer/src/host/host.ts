@@ -24,7 +24,7 @@ export interface Host {
   takeRecovery(): Promise<PlanDocument | null>;
   discardRecovery(): Promise<void>;
   initialDocument(): Promise<HostResult<PlanDocument> | null>;
-  setDirty(dirty: boolean, title: string): void;
+  setDirty(dirty: boolean, title: string, path?: string | null): void;
   saveText(suggestedName: string, text: string, extensions: string[]): Promise<HostResult<string>>;
   copyText(text: string): Promise<HostResult<true>>;
   onMenuCommand(listener: (command: MenuCommand) => void): () => void;
@@ -64,7 +64,7 @@ export function desktopHost(api: DesktopApi): Host {
     takeRecovery: () => api.takeRecovery(),
     discardRecovery: () => api.discardRecovery(),
     initialDocument: () => api.initialDocument(),
-    setDirty: (dirty, title) => api.setDirty(dirty, title),
+    setDirty: (dirty, title, path) => api.setDirty(dirty, title, path),
     saveText: (name, text, ext) => api.saveText(name, text, ext),
     copyText: copyWithClipboard,
     onMenuCommand: (listener) => api.onMenuCommand(listener),
