@@ -26,6 +26,17 @@ export interface Response {
   groupDelayMs: Float64Array;
   /** d ln|H| / dw (per radian per sample), for sums. */
   logSlope: Float64Array;
+  /**
+   * Group delay in samples, delay included, not masked below MAGNITUDE_FLOOR_DB: a sum needs the
+   * derivative of every part it adds, however small the part.
+   */
+  groupDelaySamples: Float64Array;
+  /**
+   * dH/dw (real, imaginary; gain, polarity and delay included) at the points where H is exactly
+   * 0 (a notch at its own frequency, a high-pass at 0 Hz), where d ln H / dw does not exist;
+   * absent when there is no such point. A sum adds it there.
+   */
+  derivativeAtZero?: { re: Float64Array; im: Float64Array };
 }
 
 /** Wraps an angle to (-pi, pi]. */
@@ -67,17 +78,77 @@ export function cascadeWithGainDelay(
   const filterPhase = new Float64Array(n);
   const phaseRad = new Float64Array(n);
   const groupDelayMs = new Float64Array(n);
+  const groupDelaySamples = new Float64Array(n);
   const msPerSample = 1000 / sampleRateHz;
   for (let i = 0; i < n; i++) {
     k.magnitudeDb[i] += gain === 0 ? -Infinity : gainDb;
     filterPhase[i] = wrapPi(k.phaseRad[i] + flip);
     phaseRad[i] = wrapPi(filterPhase[i] - omega[i] * delaySamples);
-    groupDelayMs[i] = k.magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : (k.groupDelaySamples[i] + delaySamples) * msPerSample;
+    groupDelaySamples[i] = k.groupDelaySamples[i] + delaySamples;
+    groupDelayMs[i] = k.magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : groupDelaySamples[i] * msPerSample;
   }
   const phaseUnwrappedRad = new Float64Array(n);
   unwrapInto(filterPhase, phaseUnwrappedRad);
   for (let i = 0; i < n; i++) phaseUnwrappedRad[i] -= omega[i] * delaySamples;
-  return { magnitudeDb: k.magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope: k.logSlope };
+  const r: Response = { magnitudeDb: k.magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope: k.logSlope, groupDelaySamples };
+  for (let i = 0; i < n; i++) {
+    if (k.magnitudeDb[i] !== -Infinity || gain === 0) continue;
+    r.derivativeAtZero ??= { re: new Float64Array(n), im: new Float64Array(n) };
+    const [dr, di] = cascadeDerivative(sections, omega[i]);
+    // d/dw (g H e^{-j w D}) = g H' e^{-j w D} where H = 0.
+    const c = Math.cos(omega[i] * delaySamples);
+    const s = -Math.sin(omega[i] * delaySamples);
+    r.derivativeAtZero.re[i] = gain * (dr * c - di * s);
+    r.derivativeAtZero.im[i] = gain * (dr * s + di * c);
+  }
+  return r;
+}
+
+/**
+ * dH/dw of a cascade at one w by the product rule, sum over k of H_k' times the other sections
+ * (no logarithmic derivative, so it holds where a section is exactly 0). Used only at such points.
+ */
+function cascadeDerivative(sections: readonly Section[], w: number): [number, number] {
+  const c1 = Math.cos(w);
+  const s1 = Math.sin(w);
+  const c2 = c1 * c1 - s1 * s1;
+  const s2 = 2 * s1 * c1;
+  // Running product P of the sections so far and its derivative Q.
+  let pr = 1;
+  let pi = 0;
+  let qr = 0;
+  let qi = 0;
+  for (const x of sections) {
+    const nr = x.b0 + x.b1 * c1 + x.b2 * c2;
+    const ni = -(x.b1 * s1 + x.b2 * s2);
+    const dr = 1 + x.a1 * c1 + x.a2 * c2;
+    const di = -(x.a1 * s1 + x.a2 * s2);
+    // dN/dw = -j (b1 z^-1 + 2 b2 z^-2), dD/dw likewise.
+    const npr = -(x.b1 * s1 + 2 * x.b2 * s2);
+    const npi = -(x.b1 * c1 + 2 * x.b2 * c2);
+    const dpr = -(x.a1 * s1 + 2 * x.a2 * s2);
+    const dpi = -(x.a1 * c1 + 2 * x.a2 * c2);
+    const d2 = dr * dr + di * di;
+    // H = N / D, H' = (N' D - N D') / D^2
+    const hr = (nr * dr + ni * di) / d2;
+    const hi = (ni * dr - nr * di) / d2;
+    const ur = npr * dr - npi * di - (nr * dpr - ni * dpi);
+    const ui = npr * di + npi * dr - (nr * dpi + ni * dpr);
+    const d4 = d2 * d2;
+    const cr = dr * dr - di * di; // conj(D)^2 = (dr - j di)^2
+    const ci = -2 * dr * di;
+    const hpr = (ur * cr - ui * ci) / d4;
+    const hpi = (ur * ci + ui * cr) / d4;
+    // (P H)' = Q H + P H'
+    const nqr = qr * hr - qi * hi + pr * hpr - pi * hpi;
+    const nqi = qr * hi + qi * hr + pr * hpi + pi * hpr;
+    const npr2 = pr * hr - pi * hi;
+    pi = pr * hi + pi * hr;
+    pr = npr2;
+    qr = nqr;
+    qi = nqi;
+  }
+  return [qr, qi];
 }
 
 export function outputResponse(out: DesignedOutput, omega: Float64Array, sampleRateHz: number): Response {
@@ -94,6 +165,7 @@ export function sumResponses(parts: readonly Response[], omega: Float64Array, sa
   const phaseRad = new Float64Array(n);
   const groupDelayMs = new Float64Array(n);
   const logSlope = new Float64Array(n);
+  const groupDelaySamples = new Float64Array(n);
   const msPerSample = 1000 / sampleRateHz;
   for (let i = 0; i < n; i++) {
     let sr = 0;
@@ -102,13 +174,21 @@ export function sumResponses(parts: readonly Response[], omega: Float64Array, sa
     let di = 0;
     for (const p of parts) {
       const m = Math.pow(10, p.magnitudeDb[i] / 20);
-      if (m === 0) continue;
+      if (m === 0) {
+        // An exact zero adds nothing to the sum but still its derivative.
+        if (p.derivativeAtZero) {
+          dr += p.derivativeAtZero.re[i];
+          di += p.derivativeAtZero.im[i];
+        }
+        continue;
+      }
       const hr = m * Math.cos(p.phaseRad[i]);
       const hi = m * Math.sin(p.phaseRad[i]);
       sr += hr;
       si += hi;
-      // d(c H)/dw = c H (slope - j tau), tau in samples including the delay.
-      const tauSamples = p.groupDelayMs[i] / msPerSample;
+      // d(c H)/dw = c H (slope - j tau), tau in samples including the delay (unmasked: a part
+      // below the magnitude floor still adds its derivative, as it adds its value).
+      const tauSamples = p.groupDelaySamples[i];
       const a = p.logSlope[i];
       if (!Number.isFinite(tauSamples)) continue;
       dr += hr * a + hi * tauSamples;
@@ -120,11 +200,12 @@ export function sumResponses(parts: readonly Response[], omega: Float64Array, sa
     // S'/S = (dr + j di)(sr - j si) / |S|^2; tau = -Im(S'/S), slope = Re(S'/S).
     const tau = -(di * sr - dr * si) / s2;
     logSlope[i] = (dr * sr + di * si) / s2;
+    groupDelaySamples[i] = tau;
     groupDelayMs[i] = magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : tau * msPerSample;
   }
   const phaseUnwrappedRad = new Float64Array(n);
   unwrapInto(phaseRad, phaseUnwrappedRad);
-  return { magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope };
+  return { magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope, groupDelaySamples };
 }
 
 export interface PlanResponse {
