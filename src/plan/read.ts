@@ -48,9 +48,67 @@ export function readPlanText(text: string): ReadResult {
   try {
     value = JSON.parse(text);
   } catch (e) {
+    const bare = bareNonFiniteNumber(text);
+    if (bare) return { ok: false, error: new PlanError(bare.path, `must be a finite number, not ${bare.token} (not valid JSON either)`) };
     return { ok: false, error: new PlanError('', `not valid JSON (${(e as Error).message})`) };
   }
   return readPlanValue(value);
+}
+
+/**
+ * Where text that is not JSON only because of a bare NaN, Infinity or -Infinity (as some
+ * writers put them) holds the first such token: its field path (`outputs[0].bands[1].q`, in
+ * the reader's notation) and the token; null when that is not the reason.
+ */
+export function bareNonFiniteNumber(text: string): { path: string; token: string } | null {
+  const MARK = '\u0000nonfinite:';
+  let out = '';
+  let found = false;
+  for (let i = 0; i < text.length; ) {
+    const ch = text[i];
+    if (ch === '"') {
+      // copy a string literal as it is
+      let j = i + 1;
+      while (j < text.length && text[j] !== '"') j += text[j] === '\\' ? 2 : 1;
+      out += text.slice(i, j + 1);
+      i = j + 1;
+      continue;
+    }
+    const m = /^(-?Infinity|NaN)(?![A-Za-z0-9_])/.exec(text.slice(i, i + 10));
+    if (m && !/[A-Za-z0-9_.]/.test(text[i - 1] ?? '')) {
+      out += JSON.stringify(MARK + m[1]);
+      i += m[1].length;
+      found = true;
+      continue;
+    }
+    out += ch;
+    i++;
+  }
+  if (!found) return null;
+  let value: unknown;
+  try {
+    value = JSON.parse(out);
+  } catch {
+    return null;
+  }
+  const walk = (v: unknown, path: string): { path: string; token: string } | null => {
+    if (typeof v === 'string') return v.startsWith(MARK) ? { path, token: v.slice(MARK.length) } : null;
+    if (Array.isArray(v)) {
+      for (let k = 0; k < v.length; k++) {
+        const r = walk(v[k], `${path}[${k}]`);
+        if (r) return r;
+      }
+      return null;
+    }
+    if (typeof v === 'object' && v !== null) {
+      for (const [key, x] of Object.entries(v)) {
+        const r = walk(x, path ? `${path}.${key}` : key);
+        if (r) return r;
+      }
+    }
+    return null;
+  };
+  return walk(value, '');
 }
 
 /** Reads an already parsed value as a plan. Never throws. */
