@@ -50,6 +50,11 @@ export function looksHighFrequency(plan: Plan, out: Output): boolean {
   return out.lowPass === null && plan.outputs.some((o) => o !== out && o.lowPass !== null);
 }
 
+/** An enabled high-pass band (cookbook 2nd order or 1st order) of the output's own chain also protects its driver. */
+function hasHighPassBand(out: Output): boolean {
+  return out.bands.some((b) => b.enabled && (b.type === 'highPass' || b.type === 'highPass1'));
+}
+
 function nearNyquist(plan: Plan, bands: Band[], where: string, warnings: Warning[]): void {
   const limit = NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2);
   for (const b of bands) {
@@ -115,12 +120,12 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
       }
     }
     nearNyquist(plan, o.bands, o.id, warnings);
-    if (!o.highPass && looksHighFrequency(plan, o)) {
+    if (!o.highPass && !hasHighPassBand(o) && looksHighFrequency(plan, o)) {
       warnings.push({
         severity: 'danger',
         code: 'no-high-pass',
         where: o.id,
-        message: `output ${o.id} looks like a high-frequency way but has no high-pass edge: low frequencies can destroy its driver`,
+        message: `output ${o.id} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
       });
     }
   });
