@@ -9,6 +9,7 @@ import { importedPlan, parseCoefficientList, type ImportFormat } from '../export
 import { BUILT_IN_PROFILES, DEFAULT_PROFILE, describeProfile, findBuiltInProfile, readProfileValue, copyProfile } from '../export/profiles';
 import { quantizeProfile } from '../export/quantized';
 import type { BoardProfile, Plan } from '../plan/types';
+import { bareNonFiniteNumber } from '../plan/read';
 import { profileToJson, writePlanText } from '../plan/write';
 import { designedResponse } from '../response/chain-response';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
@@ -32,6 +33,8 @@ export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): 
   try {
     value = JSON.parse(text);
   } catch (e) {
+    const bare = bareNonFiniteNumber(text);
+    if (bare) throw new InputError(`${name}: ${bare.path}: must be a finite number, not ${bare.token} (not valid JSON either)`);
     throw new InputError(`${name}: not valid JSON (${(e as Error).message})`);
   }
   const r = readProfileValue(value);
