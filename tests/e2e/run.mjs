@@ -264,18 +264,23 @@ async function main() {
       await page.getByTestId('sample-rate').selectOption('96000');
       await page.waitForFunction(() => window.__biquadrant.plan().sampleRate === 96000);
       comparePlotted(await plotted(), await plan());
-      // Add a band at 20 kHz, then ask for 32 kHz: Nyquist 16 kHz would cut it.
+      // Add a band at 23 kHz, then ask for 44.1 kHz (Nyquist 22.05 kHz) and 32 kHz: both would cut it.
       await page.getByTestId('chain-input').click();
       await page.getByTestId('band-add').click();
       const f = page.getByTestId('band-frequency');
-      await f.fill('20k');
+      await f.fill('23k');
       await f.press('Enter');
+      await page.getByTestId('sample-rate').selectOption('44100');
+      await page.getByTestId('notice').filter({ hasText: '44.1 kHz refused' }).waitFor();
+      assert((await plan()).sampleRate === 96000, 'preset rate applied anyway');
+      const shown = await page.getByTestId('sample-rate').inputValue();
+      assert(shown === '96000', `the list shows ${shown} after the refusal, the plan keeps 96 kHz`);
       await page.getByTestId('sample-rate').selectOption('custom');
       const c = page.getByTestId('sample-rate-custom');
       await c.fill('32k');
       await c.press('Enter');
       const err = await page.getByTestId('sample-rate-custom-error').innerText();
-      assert(/Nyquist would be 16 kHz/.test(err) && /20 kHz/.test(err), `refusal: ${err}`);
+      assert(/Nyquist would be 16 kHz/.test(err) && /23 kHz/.test(err), `refusal: ${err}`);
       assert((await plan()).sampleRate === 96000, 'rate changed anyway');
       await c.press('Escape');
       await page.getByTestId('sample-rate').selectOption('48000');
@@ -324,10 +329,27 @@ async function main() {
       await w.click();
       const text = await page.getByRole('region', { name: 'Warnings' }).innerText();
       assert(/no high-pass edge/.test(text), `warnings: ${text}`);
+      assert(/^Tweeter looks like a high-frequency way/m.test(text), `the warning names the output: ${text}`);
       await page.screenshot({ path: `${OUT}/08-warning-no-high-pass.png` });
       await w.click();
       await page.keyboard.press('Control+z');
       assert((await plan()).outputs[1].highPass !== null, 'undo restores the edge');
+    });
+
+    await check('edges that cross on one output are pointed out beside them', async () => {
+      await page.getByTestId('output-row').nth(1).locator('button.pick').click();
+      assert((await page.getByTestId('edges-crossed').count()) === 0, 'hint shown without crossed edges');
+      await page.getByTestId('edge-lowPass-on').check();
+      const f = page.getByTestId('edge-lowPass-frequency');
+      await f.fill('1k');
+      await f.press('Enter');
+      const hint = await page.getByTestId('edges-crossed').innerText();
+      assert(/low-pass edge \(1 kHz\).*high-pass edge \(2\.2 kHz\)/.test(hint), `hint: ${hint}`);
+      await page.keyboard.press('Control+z');
+      await page.keyboard.press('Control+z');
+      assert((await plan()).outputs[1].lowPass === null, 'undo removes the low-pass edge');
+      assert((await page.getByTestId('edges-crossed').count()) === 0, 'hint stays after undo');
+      await page.getByTestId('chain-input').click();
     });
 
     await check('Z-plane, Time and Export views draw without errors', async () => {

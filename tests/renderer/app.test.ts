@@ -240,4 +240,22 @@ describe('files through the host', () => {
     flushSync();
     expect(doc.plan.sampleRate).toBe(96000);
   });
+
+  it('a refused preset rate puts the list back to the rate the plan keeps', async () => {
+    await start();
+    const select = target.querySelector<HTMLSelectElement>('[data-testid="sample-rate"]')!;
+    doc.apply({ ok: true, plan: { ...doc.plan, input: { bands: [...doc.plan.input.bands, { id: 'b3', type: 'peaking', frequency: 23000, gainDb: 1, q: 1, enabled: true }] } } });
+    flushSync();
+    select.value = '44100';
+    select.dispatchEvent(new Event('change', { bubbles: true }));
+    flushSync();
+    expect(doc.plan.sampleRate).toBe(48000);
+    expect(select.value).toBe('48000');
+    expect(view.notice?.text).toMatch(/44\.1 kHz refused/);
+    select.value = '96000';
+    select.dispatchEvent(new Event('change', { bubbles: true }));
+    flushSync();
+    expect(doc.plan.sampleRate).toBe(96000);
+    expect(select.value).toBe('96000');
+  });
 });

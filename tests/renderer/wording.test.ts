@@ -1,0 +1,58 @@
+// Core messages in the user's words: a reader refusal beside its field names the field, not its
+// path in the file; an analysis warning names the output and the band's number in its chain.
+import { describe, expect, it } from 'vitest';
+import demoText from '../../assets/two-way-monitor.bqplan?raw';
+import { analyzePlan } from '../../src/analysis/check';
+import { readPlanText } from '../../src/plan/read';
+import type { Plan } from '../../src/plan/types';
+import * as edits from '../../src/ui/edits';
+import { fieldReason, warningText } from '../../renderer/src/lib/wording';
+
+function demo(): Plan {
+  const r = readPlanText(demoText);
+  if (!r.ok) throw r.error;
+  return r.plan;
+}
+
+describe('fieldReason', () => {
+  it('keeps the last name of the reader path', () => {
+    expect(fieldReason('outputs[0].bands[11].coefficients.a0: must not be 0')).toBe('a0: must not be 0');
+    expect(fieldReason('input.bands[2].slope: must be at most 3.2 for this gain')).toBe('slope: must be at most 3.2 for this gain');
+    expect(fieldReason('outputs[1]: something')).toBe('outputs: something');
+  });
+
+  it('leaves a message without a path alone', () => {
+    expect(fieldReason('Q must be above 0')).toBe('Q must be above 0');
+    expect(fieldReason('must be below Nyquist (24 kHz)')).toBe('must be below Nyquist (24 kHz)');
+  });
+
+  it('reads a real refusal of the plan reader', () => {
+    const p = demo();
+    const r = edits.updateBand(p, 'input', p.input.bands[0].id, { type: 'raw', coefficients: { b0: 1, b1: 0, b2: 0, a0: 0, a1: 0, a2: 0 } });
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.reason).toMatch(/^input\.bands\[0\]\./);
+      expect(fieldReason(r.reason)).toMatch(/^a0: /);
+    }
+  });
+});
+
+describe('warningText', () => {
+  it('names the output instead of its id', () => {
+    const p = demo();
+    const tweeter = p.outputs.find((o) => o.id === 'tweeter')!;
+    const plan: Plan = { ...p, outputs: p.outputs.map((o) => (o === tweeter ? { ...o, name: 'Dome', highPass: null } : o)) };
+    const w = analyzePlan(plan).warnings.find((x) => x.code === 'no-high-pass');
+    expect(w?.message).toMatch(/^output tweeter /);
+    expect(warningText(plan, w!)).toMatch(/^Dome looks like a high-frequency way/);
+  });
+
+  it('names the chain and the band number of a band near Nyquist', () => {
+    const p = demo();
+    const bands = [...p.input.bands, { id: 'b9', type: 'peaking' as const, frequency: 23000, gainDb: 1, q: 1, enabled: true }];
+    const plan: Plan = { ...p, input: { bands } };
+    const w = analyzePlan(plan).warnings.find((x) => x.code === 'near-nyquist');
+    expect(w?.message).toMatch(/^band b9 /);
+    expect(warningText(plan, w!)).toMatch(new RegExp(`^Input chain, band ${bands.length} at 23 kHz`));
+  });
+});
