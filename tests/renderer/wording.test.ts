@@ -6,7 +6,8 @@ import { analyzePlan } from '../../src/analysis/check';
 import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
 import * as edits from '../../src/ui/edits';
-import { fieldReason, warningText } from '../../renderer/src/lib/wording';
+import { designInput, designOutput } from '../../src/design/chain';
+import { fieldReason, sectionSource, warningText } from '../../renderer/src/lib/wording';
 
 function demo(): Plan {
   const r = readPlanText(demoText);
@@ -54,5 +55,24 @@ describe('warningText', () => {
     const w = analyzePlan(plan).warnings.find((x) => x.code === 'near-nyquist');
     expect(w?.message).toMatch(/^band b9 /);
     expect(warningText(plan, w!)).toMatch(new RegExp(`^Input chain, band ${bands.length} at 23 kHz`));
+  });
+});
+
+describe('sectionSource', () => {
+  it('names every designed section of the demo by band number or edge', () => {
+    const plan = demo();
+    expect(designInput(plan).map((s) => sectionSource(plan, s.from))).toEqual(plan.input.bands.map((_, i) => `input band ${i + 1}`));
+    const tweeter = plan.outputs.find((o) => o.id === 'tweeter')!;
+    const own = designOutput(plan, tweeter).sections.filter((s) => !s.from.startsWith('input/'));
+    expect(own.length).toBeGreaterThan(0);
+    expect(new Set(own.map((s) => sectionSource(plan, s.from)))).toEqual(new Set(['high-pass edge']));
+  });
+
+  it('numbers an output band by its place in the chain and leaves unknown sources alone', () => {
+    const p = demo();
+    const plan: Plan = { ...p, outputs: p.outputs.map((o, i) => (i === 0 ? { ...o, bands: [{ id: 'x7', type: 'notch', frequency: 500, q: 4, enabled: true }] } : o)) };
+    expect(sectionSource(plan, `${plan.outputs[0].id}/x7`)).toBe('band 1');
+    expect(sectionSource(plan, `${plan.outputs[0].id}/lowPass`)).toBe('low-pass edge');
+    expect(sectionSource(plan, 'nowhere/b1')).toBe('nowhere/b1');
   });
 });

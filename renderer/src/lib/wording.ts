@@ -35,3 +35,19 @@ export function warningText(plan: Plan, w: Warning): string {
   }
   return text.charAt(0).toUpperCase() + text.slice(1);
 }
+
+/** Where a designed section came from ("sub/highPass", "input/b1") as the user knows it. */
+export function sectionSource(plan: Plan, from: string): string {
+  const [chainId, part] = from.split('/');
+  if (part === undefined) return from;
+  if (chainId === 'input') {
+    const i = plan.input.bands.findIndex((b) => b.id === part);
+    return i >= 0 ? `input band ${i + 1}` : from;
+  }
+  const output = plan.outputs.find((o) => o.id === chainId);
+  if (!output) return from;
+  if (part === 'highPass') return 'high-pass edge';
+  if (part === 'lowPass') return 'low-pass edge';
+  const i = output.bands.findIndex((b) => b.id === part);
+  return i >= 0 ? `band ${i + 1}` : from;
+}
