@@ -169,6 +169,23 @@ async function main() {
       assert(JSON.stringify(await plan()) === JSON.stringify(after), 'redo did not restore the drag');
     });
 
+    await check('a drag past the plot edges stops at the edges (no unseen +60 dB boost)', async () => {
+      const before = await plan();
+      const h = await hook(() => window.__biquadrant.handle('b2'));
+      const box = await page.getByTestId('plot-magnitude').boundingBox();
+      await page.mouse.move(h.x, h.y);
+      await page.mouse.down();
+      for (let i = 1; i <= 12; i++) await page.mouse.move(h.x + ((box.x + box.width + 300 - h.x) * i) / 12, h.y + ((box.y - 400 - h.y) * i) / 12);
+      await page.mouse.up();
+      const b = (await plan()).input.bands[1];
+      // The magnitude plot shows -30..+12 dB and 20 Hz..20 kHz: the handle's curve can rise at most to the top.
+      const pl = await plotted();
+      assert(b.frequency <= pl.range[1] * 1.001, `dragged past the right edge to ${b.frequency} Hz`);
+      assert(b.gainDb <= before.input.bands[1].gainDb + 42 + 0.5 && b.gainDb < 30, `dragged past the top edge to ${b.gainDb} dB`);
+      await page.keyboard.press('Control+z');
+      assert(JSON.stringify(await plan()) === JSON.stringify(before), 'undo of the clamped drag');
+    });
+
     await check('the hover readout shows the frequency and the plotted values', async () => {
       const box = await page.getByTestId('plot-magnitude').boundingBox();
       await page.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.5);
@@ -234,9 +251,11 @@ async function main() {
       const current = await plan();
       assert(JSON.stringify(r.plan) === JSON.stringify(current), 'saved plan differs from the plan on screen');
       assert(!(await hook(() => window.__biquadrant.dirty())), 'still marked unsaved after saving');
+      assert((await page.getByTestId('dirty-mark').count()) === 0, 'unsaved mark shown after saving');
       // Change something, then reopen the saved file.
       await page.keyboard.press('ArrowUp');
       assert(await hook(() => window.__biquadrant.dirty()), 'edit did not mark the plan unsaved');
+      assert(await page.getByTestId('dirty-mark').isVisible(), 'no unsaved mark in the top bar');
       page.once('dialog', (dlg) => dlg.accept()); // "discard unsaved changes?"
       await openPlanText(page, d.suggestedFilename(), savedText);
       await page.waitForFunction((t) => JSON.stringify(window.__biquadrant.plan()) === t, JSON.stringify(r.plan));

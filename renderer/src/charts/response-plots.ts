@@ -598,7 +598,13 @@ export class ResponsePlots {
       if (d?.kind === 'handle') {
         const xs = c.scales.x;
         const ys = c.scales.y;
-        const fNow = xs.getValueForPixel(e.offsetX)!;
+        // The pointer counts only as far as the plot's edges: a drag past them does not run on
+        // to the +-60 dB or 1 Hz limits unseen (a big boost can destroy a driver). Typed values
+        // and a wider magnitude range reach further.
+        const a = c.chartArea;
+        const px = a ? Math.min(a.right, Math.max(a.left, e.offsetX)) : e.offsetX;
+        const py = a ? Math.min(a.bottom, Math.max(a.top, e.offsetY)) : e.offsetY;
+        const fNow = xs.getValueForPixel(px)!;
         const fGrab = xs.getValueForPixel(d.x0)!;
         const qMode = e.altKey || e.ctrlKey || e.metaKey;
         const dy = e.offsetY - d.y0;
@@ -606,7 +612,7 @@ export class ResponsePlots {
         this.pendingInputTime = e.timeStamp;
         this.#cb.onHandleDrag(d.id, {
           freqRatio: fNow / fGrab,
-          deltaDb: qMode ? 0 : ys.getValueForPixel(e.offsetY)! - ys.getValueForPixel(d.y0)!,
+          deltaDb: qMode ? 0 : ys.getValueForPixel(py)! - ys.getValueForPixel(d.y0)!,
           qRatio: qMode ? Math.pow(2, -dy / 60) : 1,
           qMode,
         });
