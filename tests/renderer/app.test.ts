@@ -258,4 +258,21 @@ describe('files through the host', () => {
     expect(doc.plan.sampleRate).toBe(96000);
     expect(select.value).toBe('96000');
   });
+
+  it('Ctrl+Z in the notes or a name field is the text undo there, not an undo of the plan', async () => {
+    await start();
+    const before = doc.plan;
+    doc.apply({ ok: true, plan: { ...doc.plan, name: 'Edited by a test' } });
+    flushSync();
+    expect(doc.canUndo).toBe(true);
+    for (const sel of ['[data-testid="plan-notes"]', '[data-testid="plan-name"]']) {
+      const field = target.querySelector<HTMLElement>(sel)!;
+      field.focus();
+      field.dispatchEvent(new KeyboardEvent('keydown', { key: 'z', ctrlKey: true, bubbles: true, cancelable: true }));
+      flushSync();
+      expect(doc.plan.name).toBe('Edited by a test');
+    }
+    key('z', { ctrlKey: true });
+    expect(doc.plan).toBe(before);
+  });
 });
