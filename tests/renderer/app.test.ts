@@ -233,7 +233,7 @@ describe('files through the host', () => {
     custom.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true }));
     flushSync();
     expect(doc.plan.sampleRate).toBe(48000);
-    expect(target.querySelector('[data-testid="sample-rate-custom-error"]')?.textContent).toMatch(/input chain band b3 at 21 kHz/);
+    expect(target.querySelector('[data-testid="sample-rate-custom-error"]')?.textContent).toMatch(/input chain band 3 at 21 kHz/);
     custom.value = '96k';
     custom.dispatchEvent(new Event('input', { bubbles: true }));
     custom.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true }));

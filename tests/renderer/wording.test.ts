@@ -7,7 +7,7 @@ import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
 import * as edits from '../../src/ui/edits';
 import { designInput, designOutput } from '../../src/design/chain';
-import { fieldReason, sectionSource, warningText } from '../../renderer/src/lib/wording';
+import { bandNumbers, fieldReason, sectionSource, warningText } from '../../renderer/src/lib/wording';
 
 function demo(): Plan {
   const r = readPlanText(demoText);
@@ -74,5 +74,25 @@ describe('sectionSource', () => {
     expect(sectionSource(plan, `${plan.outputs[0].id}/x7`)).toBe('band 1');
     expect(sectionSource(plan, `${plan.outputs[0].id}/lowPass`)).toBe('low-pass edge');
     expect(sectionSource(plan, 'nowhere/b1')).toBe('nowhere/b1');
+  });
+});
+
+describe('bandNumbers', () => {
+  it('turns the band ids of a sample-rate refusal into the numbers of the band list', () => {
+    const p = demo();
+    const tweeter = p.outputs.find((o) => o.id === 'tweeter')!;
+    const plan: Plan = {
+      ...p,
+      input: { bands: [...p.input.bands, { id: 'b7', type: 'peaking', frequency: 21000, gainDb: 1, q: 1, enabled: true }] },
+      outputs: p.outputs.map((o) => (o === tweeter ? { ...o, bands: [{ id: 'x1', type: 'notch', frequency: 1000, q: 2, enabled: true }, { id: 'b1', type: 'peaking', frequency: 20000, gainDb: 1, q: 1, enabled: true }] } : o)),
+    };
+    const r = edits.setSampleRate(plan, 32000);
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.reason).toContain('input chain band b7 at 21 kHz');
+    const text = bandNumbers(plan, r.reason);
+    expect(text).toContain(`input chain band ${plan.input.bands.length} at 21 kHz`);
+    expect(text).toContain('Tweeter band 2 at 20 kHz');
+    expect(text).not.toMatch(/band b\d/);
   });
 });

@@ -51,3 +51,19 @@ export function sectionSource(plan: Plan, from: string): string {
   const i = output.bands.findIndex((b) => b.id === part);
   return i >= 0 ? `band ${i + 1}` : from;
 }
+
+/**
+ * "input chain band b3", "Tweeter band b1" (the rate refusal of src/ui/edits) with the band's
+ * number in its chain, as the band list and the plot handles show it.
+ */
+export function bandNumbers(plan: Plan, text: string): string {
+  const chains: { name: string; bands: Plan['input']['bands'] }[] = [{ name: 'input chain', bands: plan.input.bands }, ...plan.outputs.map((o) => ({ name: o.name, bands: o.bands }))];
+  let out = text;
+  for (const c of chains) {
+    out = out.replace(new RegExp(`(^|, |below )${escapeRegExp(c.name)} band ([a-z0-9_-]+) at`, 'g'), (all, lead: string, id: string) => {
+      const i = c.bands.findIndex((b) => b.id === id);
+      return i >= 0 ? `${lead}${c.name} band ${i + 1} at` : all;
+    });
+  }
+  return out;
+}
