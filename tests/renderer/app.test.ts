@@ -155,6 +155,22 @@ describe('keyboard', () => {
     expect(doc.plan.input.bands[1].q).toBeCloseTo(4.2, 12); // 4 x 1.05
   });
 
+  it('a nudge a band type cannot take says so in words, not the file identifier', () => {
+    view.select('input', 'b1'); // 2nd-order high-pass: no gain
+    flushSync();
+    const p0 = doc.plan;
+    key('ArrowUp');
+    expect(doc.plan).toBe(p0);
+    expect(view.notice?.text).toBe('High-pass, 2nd order: this band type has no gain.');
+    doc.apply({ ok: true, plan: { ...doc.plan, input: { bands: [...doc.plan.input.bands, { id: 'b3', type: 'lowPass1', frequency: 9000, enabled: true }] } } });
+    view.select('input', 'b3');
+    flushSync();
+    const p1 = doc.plan;
+    key('PageUp');
+    expect(doc.plan).toBe(p1);
+    expect(view.notice?.text).toBe('Low-pass, 1st order: this band type has no Q.');
+  });
+
   it('Ctrl+Z and Ctrl+Shift+Z (and Ctrl+Y) undo and redo', () => {
     const p0 = doc.plan;
     key('ArrowUp');

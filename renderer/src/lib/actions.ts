@@ -10,6 +10,7 @@ import * as edits from '../../../src/ui/edits';
 import { INPUT, type ChainRef } from '../../../src/ui/edits';
 import { roundFrequency, roundGain, roundQ } from '../../../src/ui/units';
 import type { Host } from '../host/host';
+import { BAND_TYPE_LABEL } from './labels';
 import { documentState as doc } from '../state/document.svelte';
 import { viewState as view } from '../state/view.svelte';
 
@@ -97,9 +98,13 @@ export function nudgeSelected(what: 'frequency' | 'gain' | 'q', direction: 1 | -
   const key = `nudge:${chain}/${band.id}/${what}`;
   if (what === 'frequency') moveBand(chain, band, { freqRatio: Math.pow(2, (direction * (large ? 8 : 1)) / 24) }, key);
   else if (what === 'gain') {
-    if (!BAND_PARAMETERS[band.type].gain) return view.notify('info', `A ${band.type} band has no gain.`);
+    if (!BAND_PARAMETERS[band.type].gain) return view.notify('info', `${BAND_TYPE_LABEL[band.type]}: this band type has no gain.`);
     moveBand(chain, band, { deltaDb: direction * (large ? 1 : 0.1) }, key);
-  } else moveBand(chain, band, { qRatio: Math.pow(large ? 1.25 : 1.05, direction) }, key);
+  } else {
+    const p = BAND_PARAMETERS[band.type];
+    if (!p.q && !p.slope) return view.notify('info', band.type === 'raw' ? 'Raw coefficients have no Q: type them in the band editor.' : `${BAND_TYPE_LABEL[band.type]}: this band type has no Q.`);
+    moveBand(chain, band, { qRatio: Math.pow(large ? 1.25 : 1.05, direction) }, key);
+  }
 }
 
 // ---- bands and outputs ------------------------------------------------------------------------
