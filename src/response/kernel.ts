@@ -58,36 +58,113 @@ export function cascadeResponse(packed: Float64Array, sectionCount: number, omeg
   else cascadeResponseJs(packed, sectionCount, omega, out);
 }
 
+/**
+ * Accurate evaluation near z = 1 and z = -1. Written as powers of cos and sin, N(e^{jw}) cancels
+ * near a zero close to z = 1 (a high-pass at low frequency, a notch) or z = -1 (a low-pass near
+ * Nyquist), and the rounding of cos w (1e-16) becomes a large relative error there. So each section
+ * is evaluated around the nearer of the two points, with t = w (|w| <= pi/2) or t = w -/+ pi
+ * (the section with b1 and a1 negated: H(e^{jw}) = H~(e^{jt}) exactly), and small quantities
+ * computed directly: u = 1 - cos t = 2 sin^2(t/2), v = 1 - cos 2t = 2 sin^2 t. Then
+ *
+ *   Re N  = (b0 + b1 + b2) - b1 u - b2 v          Im N  = -sin t (b1 + 2 b2 - 2 b2 u)
+ *   Re N' = (b1 + 2 b2) - b1 u - 2 b2 v           Im N' = -sin t (b1 + 4 b2 - 4 b2 u)
+ *
+ * (D, D' likewise with 1, a1, a2), where b0 + b1 + b2 is summed with error-free transformations,
+ * so N(1) is exact to rounding when the coefficients put a zero at z = 1.
+ * Constants per section and side (the "+" set for |w| <= pi/2, the "-" set with b1, a1 negated):
+ */
+const K_B1 = 0;
+const K_B2 = 1;
+const K_N1 = 2;
+const K_P = 3;
+const K_P4 = 4;
+const K_A1 = 5;
+const K_A2 = 6;
+const K_D1 = 7;
+const K_Q = 8;
+const K_Q4 = 9;
+/** Numbers per section in an expanded set. */
+export const EXPANDED_STRIDE = 10;
+const HALF_PI = Math.PI / 2;
+
+/** a + b + c with the rounding errors of both additions added back (TwoSum, Knuth). */
+function sum3(a: number, b: number, c: number): number {
+  const s = a + b;
+  const bb = s - a;
+  const e1 = a - (s - bb) + (b - bb);
+  const t = s + c;
+  const cc = t - s;
+  const e2 = s - (t - cc) + (c - cc);
+  return t + (e1 + e2);
+}
+
+/**
+ * Expands packed sections into the kernel's two constant sets, "+" then "-", each
+ * EXPANDED_STRIDE numbers per section, every number written `lanes` times in a row.
+ */
+export function expandSections(packed: Float64Array, sectionCount: number, into: Float64Array, offset = 0, lanes = 1): void {
+  const setSize = sectionCount * EXPANDED_STRIDE * lanes;
+  for (let side = 0; side < 2; side++) {
+    const sign = side === 0 ? 1 : -1;
+    for (let k = 0; k < sectionCount; k++) {
+      const o = k * SECTION_STRIDE;
+      const b0 = packed[o];
+      const b1 = sign * packed[o + 1];
+      const b2 = packed[o + 2];
+      const a1 = sign * packed[o + 3];
+      const a2 = packed[o + 4];
+      const values = [b1, b2, sum3(b0, b1, b2), b1 + 2 * b2, b1 + 4 * b2, a1, a2, sum3(1, a1, a2), a1 + 2 * a2, a1 + 4 * a2];
+      const base = offset + side * setSize + k * EXPANDED_STRIDE * lanes;
+      for (let j = 0; j < EXPANDED_STRIDE; j++) for (let l = 0; l < lanes; l++) into[base + j * lanes + l] = values[j];
+    }
+  }
+}
+
+/** w reduced to (-pi, pi] and moved to t in [-pi/2, pi/2]; returns t and whether the "-" set applies. */
+function reduce(w: number): { t: number; mirrored: boolean } {
+  let r = w;
+  if (r > Math.PI || r <= -Math.PI) r -= 2 * Math.PI * Math.round(r / (2 * Math.PI));
+  if (r > HALF_PI) return { t: r - Math.PI, mirrored: true };
+  if (r < -HALF_PI) return { t: r + Math.PI, mirrored: true };
+  return { t: r, mirrored: false };
+}
+
+let jsScratch = new Float64Array(0);
+
 /** The plain JavaScript kernel (the reference the WebAssembly one is tested against). */
 export function cascadeResponseJs(packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
   const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
+  const setSize = sectionCount * EXPANDED_STRIDE;
+  if (jsScratch.length < 2 * setSize) jsScratch = new Float64Array(2 * setSize);
+  const K = jsScratch;
+  expandSections(packed, sectionCount, K);
   const points = omega.length;
   for (let i = 0; i < points; i++) {
-    const w = omega[i];
-    const c1 = Math.cos(w);
-    const s1 = Math.sin(w);
-    // z^-1 = c1 - j s1, z^-2 = c2 - j s2 (double-angle forms, exact to about an ulp).
-    const c2 = c1 * c1 - s1 * s1;
-    const s2 = 2 * s1 * c1;
+    const { t, mirrored } = reduce(omega[i]);
+    const s = Math.sin(t);
+    const h = Math.sin(t / 2);
+    const u = 2 * h * h;
+    const v = 2 * s * s;
     let hr = 1;
     let hi = 0;
     let logScale = 0; // ln of the factor taken out of (hr, hi) by rescaling, in ln(|H|^2) units
     let tau = 0;
     let slope = 0;
-    for (let k = 0, o = 0; k < sectionCount; k++, o += SECTION_STRIDE) {
-      const b0 = packed[o];
-      const b1 = packed[o + 1];
-      const b2 = packed[o + 2];
-      const a1 = packed[o + 3];
-      const a2 = packed[o + 4];
-      const nr = b0 + b1 * c1 + b2 * c2;
-      const ni = -(b1 * s1 + b2 * s2);
-      const dr = 1 + a1 * c1 + a2 * c2;
-      const di = -(a1 * s1 + a2 * s2);
-      const npr = b1 * c1 + 2 * b2 * c2;
-      const npi = -(b1 * s1 + 2 * b2 * s2);
-      const dpr = a1 * c1 + 2 * a2 * c2;
-      const dpi = -(a1 * s1 + 2 * a2 * s2);
+    for (let k = 0, o = mirrored ? setSize : 0; k < sectionCount; k++, o += EXPANDED_STRIDE) {
+      const b1u = K[o + K_B1] * u;
+      const b2u = K[o + K_B2] * u;
+      const b2v = K[o + K_B2] * v;
+      const a1u = K[o + K_A1] * u;
+      const a2u = K[o + K_A2] * u;
+      const a2v = K[o + K_A2] * v;
+      const nr = K[o + K_N1] - b1u - b2v;
+      const ni = -s * (K[o + K_P] - 2 * b2u);
+      const npr = K[o + K_P] - b1u - 2 * b2v;
+      const npi = -s * (K[o + K_P4] - 4 * b2u);
+      const dr = K[o + K_D1] - a1u - a2v;
+      const di = -s * (K[o + K_Q] - 2 * a2u);
+      const dpr = K[o + K_Q] - a1u - 2 * a2v;
+      const dpi = -s * (K[o + K_Q4] - 4 * a2u);
       const inn = 1 / (nr * nr + ni * ni);
       const idd = 1 / (dr * dr + di * di);
       tau += (npr * nr + npi * ni) * inn - (dpr * dr + dpi * di) * idd;
@@ -95,9 +172,9 @@ export function cascadeResponseJs(packed: Float64Array, sectionCount: number, om
       // H *= N conj(D) / |D|^2
       const tr = (nr * dr + ni * di) * idd;
       const ti = (ni * dr - nr * di) * idd;
-      const h = hr * tr - hi * ti;
+      const hn = hr * tr - hi * ti;
       hi = hr * ti + hi * tr;
-      hr = h;
+      hr = hn;
       const m2 = hr * hr + hi * hi;
       if ((m2 < RESCALE_LOW || m2 > RESCALE_HIGH) && m2 > 0 && m2 < Infinity) {
         const inv = 1 / Math.sqrt(m2);
@@ -163,53 +240,59 @@ export function wasmKernel(): WasmKernel | null {
 
 const WASM_PAGE = 65536;
 const WASM_MIN_POINTS = 32;
+/** Arrays per point group in kernel memory: sin t, u, v in; Re H, Im H, rescale count, tau, slope out. */
+const KERNEL_ARRAYS = 8;
 /** dB per unit of the kernel's rescale count: 10 log10(2^664). */
 const DB_PER_RESCALE = 6640 * Math.log10(2);
 
+let slotOf = new Int32Array(0);
+
 function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
   const points = omega.length;
-  const padded = points + (points & 1);
-  const secBytes = sectionCount * SECTION_STRIDE * 16;
-  const ptsOffset = Math.ceil(secBytes / 16) * 16;
-  const need = ptsOffset + 9 * padded * 8;
+  if (slotOf.length < points) slotOf = new Int32Array(points);
+  let nearOne = 0;
+  for (let i = 0; i < points; i++) if (!reduce(omega[i]).mirrored) nearOne++;
+  // Two groups of points, each padded to an even count: "+" (near z = 1) and "-" (near z = -1).
+  const padPlus = nearOne + (nearOne & 1);
+  const nearMinus = points - nearOne;
+  const padMinus = nearMinus + (nearMinus & 1);
+  const setDoubles = sectionCount * EXPANDED_STRIDE * 2;
+  const plusBase = 2 * setDoubles; // in doubles; 16-byte aligned since setDoubles is even
+  const minusBase = plusBase + KERNEL_ARRAYS * padPlus;
+  const need = (minusBase + KERNEL_ARRAYS * padMinus) * 8;
   if (k.memory.buffer.byteLength < need) k.memory.grow(Math.ceil((need - k.memory.buffer.byteLength) / WASM_PAGE));
   const mem = new Float64Array(k.memory.buffer);
-  // Each coefficient twice, one per SIMD lane.
-  for (let j = 0, n = sectionCount * SECTION_STRIDE; j < n; j++) mem[2 * j] = mem[2 * j + 1] = packed[j];
-  const base = ptsOffset / 8;
-  const cos1 = base;
-  const sin1 = base + padded;
-  const cos2 = base + 2 * padded;
-  const sin2 = base + 3 * padded;
+  expandSections(packed, sectionCount, mem, 0, 2);
+  let iPlus = 0;
+  let iMinus = 0;
   for (let i = 0; i < points; i++) {
-    const c = Math.cos(omega[i]);
-    const s = Math.sin(omega[i]);
-    mem[cos1 + i] = c;
-    mem[sin1 + i] = s;
-    mem[cos2 + i] = c * c - s * s;
-    mem[sin2 + i] = 2 * s * c;
+    const { t, mirrored } = reduce(omega[i]);
+    const base = mirrored ? minusBase : plusBase;
+    const pad = mirrored ? padMinus : padPlus;
+    const j = mirrored ? iMinus++ : iPlus++;
+    slotOf[i] = base + j;
+    const s = Math.sin(t);
+    const h = Math.sin(t / 2);
+    mem[base + j] = s;
+    mem[base + pad + j] = 2 * h * h;
+    mem[base + 2 * pad + j] = 2 * s * s;
   }
-  for (let i = points; i < padded; i++) {
-    mem[cos1 + i] = 1;
-    mem[sin1 + i] = 0;
-    mem[cos2 + i] = 1;
-    mem[sin2 + i] = 0;
-  }
-  k.cascade(0, sectionCount, ptsOffset, padded * 8);
-  const hr = base + 4 * padded;
-  const hi = base + 5 * padded;
-  const cnt = base + 6 * padded;
-  const tau = base + 7 * padded;
-  const slope = base + 8 * padded;
+  // Padding points: t = 0.
+  if (padPlus > nearOne) mem[plusBase + nearOne] = mem[plusBase + padPlus + nearOne] = mem[plusBase + 2 * padPlus + nearOne] = 0;
+  if (padMinus > nearMinus) mem[minusBase + nearMinus] = mem[minusBase + padMinus + nearMinus] = mem[minusBase + 2 * padMinus + nearMinus] = 0;
+  if (padPlus > 0) k.cascade(0, sectionCount, plusBase * 8, padPlus * 8);
+  if (padMinus > 0) k.cascade(setDoubles * 8, sectionCount, minusBase * 8, padMinus * 8);
   const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
   let redo: number[] | null = null;
   for (let i = 0; i < points; i++) {
-    const r = mem[hr + i];
-    const m = mem[hi + i];
-    magnitudeDb[i] = DB_PER_NEPER_SQUARED * Math.log(r * r + m * m) + DB_PER_RESCALE * mem[cnt + i];
+    const j = slotOf[i];
+    const pad = j >= minusBase ? padMinus : padPlus;
+    const r = mem[j + 3 * pad];
+    const m = mem[j + 4 * pad];
+    magnitudeDb[i] = DB_PER_NEPER_SQUARED * Math.log(r * r + m * m) + DB_PER_RESCALE * mem[j + 5 * pad];
     phaseRad[i] = Math.atan2(m, r);
-    groupDelaySamples[i] = mem[tau + i];
-    logSlope[i] = mem[slope + i];
+    groupDelaySamples[i] = mem[j + 6 * pad];
+    logSlope[i] = mem[j + 7 * pad];
     if (Number.isNaN(magnitudeDb[i])) (redo ??= []).push(i);
   }
   // An exact zero of a section (a high-pass at 0 Hz, a low-pass at Nyquist, a notch at its
