@@ -120,13 +120,18 @@ export function expandSections(packed: Float64Array, sectionCount: number, into:
   }
 }
 
-/** w reduced to (-pi, pi] and moved to t in [-pi/2, pi/2]; returns t and whether the "-" set applies. */
-function reduce(w: number): { t: number; mirrored: boolean } {
+/**
+ * w moved to t in [-pi/2, pi/2]: t = w, or t = w -/+ pi on the "-" side (returned with 4 added, so
+ * one number carries both: `mirrored = r > 2`, t = mirrored ? r - 4 : r). Then the per-point inputs:
+ * h = sin(t/2), s = sin t = 2 h cos(t/2) = 2 h sqrt(1 - h^2) (no cancellation for |t/2| <= pi/4),
+ * u = 2 h^2, v = 2 s^2: one sine per point.
+ */
+function reduce(w: number): number {
   let r = w;
   if (r > Math.PI || r <= -Math.PI) r -= 2 * Math.PI * Math.round(r / (2 * Math.PI));
-  if (r > HALF_PI) return { t: r - Math.PI, mirrored: true };
-  if (r < -HALF_PI) return { t: r + Math.PI, mirrored: true };
-  return { t: r, mirrored: false };
+  if (r > HALF_PI) return r - Math.PI + 4;
+  if (r < -HALF_PI) return r + Math.PI + 4;
+  return r;
 }
 
 let jsScratch = new Float64Array(0);
@@ -140,9 +145,10 @@ export function cascadeResponseJs(packed: Float64Array, sectionCount: number, om
   expandSections(packed, sectionCount, K);
   const points = omega.length;
   for (let i = 0; i < points; i++) {
-    const { t, mirrored } = reduce(omega[i]);
-    const s = Math.sin(t);
-    const h = Math.sin(t / 2);
+    const r = reduce(omega[i]);
+    const mirrored = r > 2;
+    const h = Math.sin((mirrored ? r - 4 : r) / 2);
+    const s = 2 * h * Math.sqrt(1 - h * h);
     const u = 2 * h * h;
     const v = 2 * s * s;
     let hr = 1;
@@ -242,8 +248,8 @@ const WASM_PAGE = 65536;
 const WASM_MIN_POINTS = 32;
 /** Arrays per point group in kernel memory: sin t, u, v in; Re H, Im H, rescale count, tau, slope out. */
 const KERNEL_ARRAYS = 8;
-/** dB per unit of the kernel's rescale count: 10 log10(2^664). */
-const DB_PER_RESCALE = 6640 * Math.log10(2);
+/** dB per unit of the kernel's rescale count: 10 log10(2^332). */
+const DB_PER_RESCALE = 3320 * Math.log10(2);
 
 let slotOf = new Int32Array(0);
 
@@ -251,7 +257,7 @@ function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: 
   const points = omega.length;
   if (slotOf.length < points) slotOf = new Int32Array(points);
   let nearOne = 0;
-  for (let i = 0; i < points; i++) if (!reduce(omega[i]).mirrored) nearOne++;
+  for (let i = 0; i < points; i++) if (reduce(omega[i]) <= 2) nearOne++;
   // Two groups of points, each padded to an even count: "+" (near z = 1) and "-" (near z = -1).
   const padPlus = nearOne + (nearOne & 1);
   const nearMinus = points - nearOne;
@@ -266,13 +272,14 @@ function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: 
   let iPlus = 0;
   let iMinus = 0;
   for (let i = 0; i < points; i++) {
-    const { t, mirrored } = reduce(omega[i]);
+    const r = reduce(omega[i]);
+    const mirrored = r > 2;
     const base = mirrored ? minusBase : plusBase;
     const pad = mirrored ? padMinus : padPlus;
     const j = mirrored ? iMinus++ : iPlus++;
     slotOf[i] = base + j;
-    const s = Math.sin(t);
-    const h = Math.sin(t / 2);
+    const h = Math.sin((mirrored ? r - 4 : r) / 2);
+    const s = 2 * h * Math.sqrt(1 - h * h);
     mem[base + j] = s;
     mem[base + pad + j] = 2 * h * h;
     mem[base + 2 * pad + j] = 2 * s * s;
