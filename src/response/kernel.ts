@@ -67,22 +67,23 @@ export function cascadeResponse(packed: Float64Array, sectionCount: number, omeg
  * computed directly: u = 1 - cos t = 2 sin^2(t/2), v = 1 - cos 2t = 2 sin^2 t. Then
  *
  *   Re N  = (b0 + b1 + b2) - b1 u - b2 v          Im N  = -sin t (b1 + 2 b2 - 2 b2 u)
- *   Re N' = (b1 + 2 b2) - b1 u - 2 b2 v           Im N' = -sin t (b1 + 4 b2 - 4 b2 u)
+ *   Re N' = Re N - (b0 - b2) - b2 v               Im N' = Im N - b2 sin 2t
  *
  * (D, D' likewise with 1, a1, a2), where b0 + b1 + b2 is summed with error-free transformations,
  * so N(1) is exact to rounding when the coefficients put a zero at z = 1.
  * Constants per section and side (the "+" set for |w| <= pi/2, the "-" set with b1, a1 negated):
+ * b1, b2, b0 + b1 + b2, b1 + 2 b2, b0 - b2, and the same for 1, a1, a2.
  */
 const K_B1 = 0;
 const K_B2 = 1;
 const K_N1 = 2;
 const K_P = 3;
-const K_P4 = 4;
+const K_C = 4;
 const K_A1 = 5;
 const K_A2 = 6;
 const K_D1 = 7;
 const K_Q = 8;
-const K_Q4 = 9;
+const K_CD = 9;
 /** Numbers per section in an expanded set. */
 export const EXPANDED_STRIDE = 10;
 const HALF_PI = Math.PI / 2;
@@ -113,7 +114,7 @@ export function expandSections(packed: Float64Array, sectionCount: number, into:
       const b2 = packed[o + 2];
       const a1 = sign * packed[o + 3];
       const a2 = packed[o + 4];
-      const values = [b1, b2, sum3(b0, b1, b2), b1 + 2 * b2, b1 + 4 * b2, a1, a2, sum3(1, a1, a2), a1 + 2 * a2, a1 + 4 * a2];
+      const values = [b1, b2, sum3(b0, b1, b2), b1 + 2 * b2, b0 - b2, a1, a2, sum3(1, a1, a2), a1 + 2 * a2, 1 - a2];
       const base = offset + side * setSize + k * EXPANDED_STRIDE * lanes;
       for (let j = 0; j < EXPANDED_STRIDE; j++) for (let l = 0; l < lanes; l++) into[base + j * lanes + l] = values[j];
     }
@@ -151,6 +152,7 @@ export function cascadeResponseJs(packed: Float64Array, sectionCount: number, om
     const s = 2 * h * Math.sqrt(1 - h * h);
     const u = 2 * h * h;
     const v = 2 * s * s;
+    const s2 = 2 * s * (1 - u); // sin 2t
     let hr = 1;
     let hi = 0;
     let logScale = 0; // ln of the factor taken out of (hr, hi) by rescaling, in ln(|H|^2) units
@@ -165,12 +167,12 @@ export function cascadeResponseJs(packed: Float64Array, sectionCount: number, om
       const a2v = K[o + K_A2] * v;
       const nr = K[o + K_N1] - b1u - b2v;
       const ni = -s * (K[o + K_P] - 2 * b2u);
-      const npr = K[o + K_P] - b1u - 2 * b2v;
-      const npi = -s * (K[o + K_P4] - 4 * b2u);
+      const npr = nr - K[o + K_C] - b2v;
+      const npi = ni - K[o + K_B2] * s2;
       const dr = K[o + K_D1] - a1u - a2v;
       const di = -s * (K[o + K_Q] - 2 * a2u);
-      const dpr = K[o + K_Q] - a1u - 2 * a2v;
-      const dpi = -s * (K[o + K_Q4] - 4 * a2u);
+      const dpr = dr - K[o + K_CD] - a2v;
+      const dpi = di - K[o + K_A2] * s2;
       const inn = 1 / (nr * nr + ni * ni);
       const idd = 1 / (dr * dr + di * di);
       tau += (npr * nr + npi * ni) * inn - (dpr * dr + dpi * di) * idd;
@@ -246,8 +248,8 @@ export function wasmKernel(): WasmKernel | null {
 
 const WASM_PAGE = 65536;
 const WASM_MIN_POINTS = 32;
-/** Arrays per point group in kernel memory: sin t, u, v in; Re H, Im H, rescale count, tau, slope out. */
-const KERNEL_ARRAYS = 8;
+/** Arrays per point group in kernel memory: sin t, u, v, sin 2t in; Re H, Im H, rescale count, tau, slope out. */
+const KERNEL_ARRAYS = 9;
 /** dB per unit of the kernel's rescale count: 10 log10(2^332). */
 const DB_PER_RESCALE = 3320 * Math.log10(2);
 
@@ -280,13 +282,17 @@ function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: 
     slotOf[i] = base + j;
     const h = Math.sin((mirrored ? r - 4 : r) / 2);
     const s = 2 * h * Math.sqrt(1 - h * h);
+    const u = 2 * h * h;
     mem[base + j] = s;
-    mem[base + pad + j] = 2 * h * h;
+    mem[base + pad + j] = u;
     mem[base + 2 * pad + j] = 2 * s * s;
+    mem[base + 3 * pad + j] = 2 * s * (1 - u);
   }
   // Padding points: t = 0.
-  if (padPlus > nearOne) mem[plusBase + nearOne] = mem[plusBase + padPlus + nearOne] = mem[plusBase + 2 * padPlus + nearOne] = 0;
-  if (padMinus > nearMinus) mem[minusBase + nearMinus] = mem[minusBase + padMinus + nearMinus] = mem[minusBase + 2 * padMinus + nearMinus] = 0;
+  for (let a = 0; a < 4; a++) {
+    if (padPlus > nearOne) mem[plusBase + a * padPlus + nearOne] = 0;
+    if (padMinus > nearMinus) mem[minusBase + a * padMinus + nearMinus] = 0;
+  }
   if (padPlus > 0) k.cascade(0, sectionCount, plusBase * 8, padPlus * 8);
   if (padMinus > 0) k.cascade(setDoubles * 8, sectionCount, minusBase * 8, padMinus * 8);
   const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
@@ -294,12 +300,12 @@ function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: 
   for (let i = 0; i < points; i++) {
     const j = slotOf[i];
     const pad = j >= minusBase ? padMinus : padPlus;
-    const r = mem[j + 3 * pad];
-    const m = mem[j + 4 * pad];
-    magnitudeDb[i] = DB_PER_NEPER_SQUARED * Math.log(r * r + m * m) + DB_PER_RESCALE * mem[j + 5 * pad];
+    const r = mem[j + 4 * pad];
+    const m = mem[j + 5 * pad];
+    magnitudeDb[i] = DB_PER_NEPER_SQUARED * Math.log(r * r + m * m) + DB_PER_RESCALE * mem[j + 6 * pad];
     phaseRad[i] = Math.atan2(m, r);
-    groupDelaySamples[i] = mem[j + 6 * pad];
-    logSlope[i] = mem[j + 7 * pad];
+    groupDelaySamples[i] = mem[j + 7 * pad];
+    logSlope[i] = mem[j + 8 * pad];
     if (Number.isNaN(magnitudeDb[i])) (redo ??= []).push(i);
   }
   // An exact zero of a section (a high-pass at 0 Hz, a low-pass at Nyquist, a notch at its

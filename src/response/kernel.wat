@@ -9,9 +9,9 @@
 ;; side's constant set.
 ;;
 ;; Memory layout (byte offsets; n8 = 8 x the padded, even point count):
-;;   sec .. sec + 160 nsec : per section B1 B2 N1 P P4 A1 A2 D1 Q Q4 as f64, each twice (one per lane)
-;;   pts + k n8          : k = 0 sin t, 1 u = 2 sin^2(t/2), 2 v = 2 sin^2 t        (inputs)
-;;                          k = 3 Re H, 4 Im H, 5 rescale count, 6 tau, 7 slope (outputs)
+;;   sec .. sec + 160 nsec : per section B1 B2 N1 P C A1 A2 D1 Q C' as f64, each twice (one per lane)
+;;   pts + k n8          : k = 0 sin t, 1 u = 2 sin^2(t/2), 2 v = 2 sin^2 t, 3 sin 2t  (inputs)
+;;                          k = 4 Re H, 5 Im H, 6 rescale count, 7 tau, 8 slope (outputs)
 ;; Rescaling, checked after every 4th section: when |H|^2 leaves [1e-100, 1e100], H is multiplied
 ;; by 2^-166 or 2^166 (exact) and the count (kept in memory, it changes rarely) moves by +1 or -1:
 ;; |H|^2 (true) = |H|^2 (stored) x 2^(332 count). Four sections move |H|^2 by less than 1e200
@@ -23,7 +23,7 @@
   (memory (export "memory") 1)
   (func (export "cascade") (param $sec i32) (param $nsec i32) (param $pts i32) (param $n8 i32)
     (local $p i32) (local $end i32) (local $o i32) (local $oend i32) (local $k i32) (local $cp i32)
-    (local $s v128) (local $u v128) (local $v v128)
+    (local $s v128) (local $u v128) (local $v v128) (local $s2 v128)
     (local $hr v128) (local $hi v128) (local $tau v128) (local $slope v128)
     (local $b1u v128) (local $b2u v128) (local $b2v v128) (local $pp v128)
     (local $nr v128) (local $nin v128) (local $npr v128) (local $npin v128)
@@ -40,7 +40,8 @@
         (local.set $s (v128.load (local.get $p)))
         (local.set $u (v128.load (i32.add (local.get $p) (local.get $n8))))
         (local.set $v (v128.load (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 2)))))
-        (local.set $cp (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 5))))
+        (local.set $s2 (v128.load (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 3)))))
+        (local.set $cp (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 6))))
         (v128.store (local.get $cp) (v128.const f64x2 0 0))
         (local.set $hr (v128.const f64x2 1 1))
         (local.set $hi (v128.const f64x2 0 0))
@@ -51,7 +52,7 @@
         (block $sdone
           (loop $sections
             (br_if $sdone (i32.ge_u (local.get $o) (local.get $oend)))
-            ;; Numerator: N = nr - j nin, N' = npr - j npin (constants B1 B2 N1 P P4 at 0..64).
+            ;; Numerator: N = nr - j nin, N' = npr - j npin (constants B1 B2 N1 P C at 0..64).
             (local.set $b1u (f64x2.mul (v128.load (local.get $o)) (local.get $u)))
             (local.set $h (v128.load offset=16 (local.get $o)))
             (local.set $b2u (f64x2.mul (local.get $h) (local.get $u)))
@@ -59,12 +60,13 @@
             (local.set $pp (v128.load offset=48 (local.get $o)))
             (local.set $nr (f64x2.sub (f64x2.sub (v128.load offset=32 (local.get $o)) (local.get $b1u)) (local.get $b2v)))
             (local.set $nin (f64x2.mul (local.get $s) (f64x2.sub (local.get $pp) (f64x2.add (local.get $b2u) (local.get $b2u)))))
-            (local.set $npr (f64x2.sub (f64x2.sub (local.get $pp) (local.get $b1u)) (f64x2.add (local.get $b2v) (local.get $b2v))))
-            (local.set $npin (f64x2.mul (local.get $s) (f64x2.sub (v128.load offset=64 (local.get $o)) (f64x2.mul (local.get $b2u) (v128.const f64x2 4 4)))))
+            ;; N' from N: Re = Re N - C - b2 v (C = b0 - b2, or 1 - a2), Im = Im N - b2 sin 2t
+            (local.set $npr (f64x2.sub (f64x2.sub (local.get $nr) (v128.load offset=64 (local.get $o))) (local.get $b2v)))
+            (local.set $npin (f64x2.add (local.get $nin) (f64x2.mul (local.get $h) (local.get $s2))))
             (local.set $nn (f64x2.add (f64x2.mul (local.get $nr) (local.get $nr)) (f64x2.mul (local.get $nin) (local.get $nin))))
             (local.set $tn (f64x2.add (f64x2.mul (local.get $npr) (local.get $nr)) (f64x2.mul (local.get $npin) (local.get $nin))))
             (local.set $sn (f64x2.sub (f64x2.mul (local.get $npr) (local.get $nin)) (f64x2.mul (local.get $npin) (local.get $nr))))
-            ;; Denominator: D = dr - j din, D' = dpr - j dpin (constants A1 A2 D1 Q Q4 at 80..144).
+            ;; Denominator: D = dr - j din, D' = dpr - j dpin (constants A1 A2 D1 Q C' at 80..144).
             (local.set $b1u (f64x2.mul (v128.load offset=80 (local.get $o)) (local.get $u)))
             (local.set $h (v128.load offset=96 (local.get $o)))
             (local.set $b2u (f64x2.mul (local.get $h) (local.get $u)))
@@ -72,8 +74,9 @@
             (local.set $pp (v128.load offset=128 (local.get $o)))
             (local.set $dr (f64x2.sub (f64x2.sub (v128.load offset=112 (local.get $o)) (local.get $b1u)) (local.get $b2v)))
             (local.set $din (f64x2.mul (local.get $s) (f64x2.sub (local.get $pp) (f64x2.add (local.get $b2u) (local.get $b2u)))))
-            (local.set $dpr (f64x2.sub (f64x2.sub (local.get $pp) (local.get $b1u)) (f64x2.add (local.get $b2v) (local.get $b2v))))
-            (local.set $dpin (f64x2.mul (local.get $s) (f64x2.sub (v128.load offset=144 (local.get $o)) (f64x2.mul (local.get $b2u) (v128.const f64x2 4 4)))))
+            ;; D' from D: Re = Re D - C - b2 v (C = b0 - b2, or 1 - a2), Im = Im D - b2 sin 2t
+            (local.set $dpr (f64x2.sub (f64x2.sub (local.get $dr) (v128.load offset=144 (local.get $o))) (local.get $b2v)))
+            (local.set $dpin (f64x2.add (local.get $din) (f64x2.mul (local.get $h) (local.get $s2))))
             (local.set $dd (f64x2.add (f64x2.mul (local.get $dr) (local.get $dr)) (f64x2.mul (local.get $din) (local.get $din))))
             (local.set $td (f64x2.add (f64x2.mul (local.get $dpr) (local.get $dr)) (f64x2.mul (local.get $dpin) (local.get $din))))
             (local.set $sd (f64x2.sub (f64x2.mul (local.get $dpr) (local.get $din)) (f64x2.mul (local.get $dpin) (local.get $dr))))
@@ -108,10 +111,10 @@
                         (v128.and (local.get $mhi) (v128.const f64x2 1 1))
                         (v128.and (local.get $mlo) (v128.const f64x2 1 1)))))))))
             (br $sections)))
-        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 3))) (local.get $hr))
-        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 4))) (local.get $hi))
-        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 6))) (local.get $tau))
-        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 7))) (local.get $slope))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 4))) (local.get $hr))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 5))) (local.get $hi))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 7))) (local.get $tau))
+        (v128.store (i32.add (local.get $p) (i32.mul (local.get $n8) (i32.const 8))) (local.get $slope))
         (local.set $p (i32.add (local.get $p) (i32.const 16)))
         (br $points))))
 )
