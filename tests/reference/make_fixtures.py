@@ -455,6 +455,40 @@ def prototype_cases():
     return cases
 
 
+def extreme_probe_cases():
+    """Sections probed a hair above 0 Hz and a hair below Nyquist, where a response written as
+    powers of cos w and sin w cancels: references for the kernel's evaluation (not for a design),
+    so the sections are scipy's or the cookbook's, and the reference is sos_exact at 50 digits."""
+    cases = []
+
+    def probes(fs):
+        ny = fs / 2
+        return [0.01, 0.05, 0.5, 2.0, ny - 2.0, ny - 0.5, ny - 0.05]
+
+    def add(name, sos, fs, call):
+        freqs = probes(fs)
+        em, ep, gd = [], [], []
+        for f in freqs:
+            h0, tau = sos_exact(sos, f, fs)
+            em.append(db(h0))
+            ep.append(deg(h0))
+            gd.append(fl(tau))
+        cases.append({'name': name, 'sampleRate': fs, 'call': call, 'sos': [[fl(x) for x in row] for row in sos],
+                      'freqs': freqs, 'sosExact': {'magnitudeDb': em, 'phaseDeg': ep, 'groupDelaySamples': gd}})
+
+    for (order, fc, btype, fs) in [(4, 20.0, 'high', 192000.0), (2, 10.0, 'high', 48000.0), (4, 20000.0, 'low', 44100.0), (3, 23000.0, 'low', 48000.0)]:
+        call = "scipy.signal.butter(%d, %r, btype='%s', output='sos', fs=%r)" % (order, fc, btype, fs)
+        add('butter', sig.butter(order, fc, btype=btype, output='sos', fs=fs), fs, call)
+    for (order, fc, btype, fs, norm) in [(8, 15.0, 'high', 96000.0, 'mag'), (6, 21000.0, 'low', 48000.0, 'phase')]:
+        call = "scipy.signal.bessel(%d, %r, btype='%s', output='sos', fs=%r, norm='%s')" % (order, fc, btype, fs, norm)
+        add('bessel', sig.bessel(order, fc, btype=btype, output='sos', fs=fs, norm=norm), fs, call)
+    for (kind, f0, fs, g, q) in [('peaking', 5.0, 48000.0, -12.0, 2.0), ('lowPass', 23500.0, 48000.0, 0.0, 0.7071067811865476), ('notch', 3.0, 96000.0, 0.0, 4.0)]:
+        b0, b1, b2, a1, a2 = cookbook(kind, f0, fs, gain_db=g, q=q)
+        sos = [[b0, b1, b2, 1.0, a1, a2]]
+        add('cookbook ' + kind, sos, fs, 'cookbook(%r, %r, %r, gain_db=%r, q=%r) in this script' % (kind, f0, fs, g, q))
+    return cases
+
+
 def main():
     meta = dict(VERSIONS)
     meta['generator'] = 'tests/reference/make_fixtures.py'
@@ -466,6 +500,7 @@ def main():
     write('cookbook.json', dict(meta, note='Audio EQ Cookbook formulas written in Python (this script); exact = 50-digit evaluation of the section'), cookbook_cases())
     write('first-order.json', dict(meta, note='scipy.signal.bilinear of the pre-warped analog first-order sections'), first_order_cases())
     write('prototypes.json', dict(meta, note='analog prototype poles (upper half plane, by increasing Q) at 50 digits; Bessel roots of the reverse Bessel polynomial'), prototype_cases())
+    write('extreme-probes.json', dict(meta, note='sections probed within a few Hz of 0 Hz and of Nyquist; sosExact = 50-digit evaluation of the same float64 sections'), extreme_probe_cases())
     write('plans.json', dict(meta, note='whole plans: outputs with gain, polarity, delay, and the complex sum with its group delay'), plan_cases())
 
 
