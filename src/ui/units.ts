@@ -92,13 +92,14 @@ export function parseQOrBandwidth(text: string): Parsed<QEntry> {
     if (octaves > 10) return { ok: false, reason: 'bandwidth must be at most 10 octaves' };
     return { ok: true, value: { kind: 'bandwidth', octaves } };
   }
-  const q = parseQ(t);
+  const q = parseQ(text);
   return q.ok ? { ok: true, value: { kind: 'q', q: q.value } } : q;
 }
 
 /** A quality factor, 0 < Q <= LIMITS.qMax. */
 export function parseQ(text: string): Parsed {
   const t = clean(text).replace(/^q=?/, '');
+  if (t === '') return { ok: false, reason: 'enter a Q (e.g. 0.7)' };
   const n = parsePlainNumber(t);
   if (!n.ok) return { ok: false, reason: `"${text.trim()}" is not a Q` };
   if (!(n.value > 0)) return { ok: false, reason: 'Q must be above 0' };
@@ -144,6 +145,7 @@ export function parseOutputGainDb(text: string): Parsed {
 
 /** A sample rate in Hz ("48k", "44.1 kHz", "96000") within the plan limits. */
 export function parseSampleRate(text: string): Parsed {
+  if (clean(text) === '') return { ok: false, reason: 'enter a sample rate (e.g. 48k)' };
   const f = parseFrequency(text);
   if (!f.ok) return { ok: false, reason: `"${text.trim()}" is not a sample rate (try 48k)` };
   if (f.value < LIMITS.sampleRateMinHz || f.value > LIMITS.sampleRateMaxHz) {

@@ -185,3 +185,16 @@ describe('display', () => {
     expect(roundQ(4.31812)).toBe(4.32);
   });
 });
+
+describe('refusal wording keeps what was typed', () => {
+  it('echoes the entry as typed and asks for a value when empty', async () => {
+    const { parseQ, parseQOrBandwidth, parseSampleRate } = await import('../../src/ui/units');
+    const q = parseQOrBandwidth('NaN');
+    expect(q.ok).toBe(false);
+    if (!q.ok) expect(q.reason).toBe('"NaN" is not a Q');
+    const empty = parseQ('  ');
+    expect(!empty.ok && empty.reason).toBe('enter a Q (e.g. 0.7)');
+    const rate = parseSampleRate('');
+    expect(!rate.ok && rate.reason).toBe('enter a sample rate (e.g. 48k)');
+  });
+});
