@@ -71,7 +71,7 @@ export function exportText(list: ExportList): string {
   lines.push(`# One line per section: ${effectiveOrder(list.profile).join(' ')}`);
   for (const o of list.outputs) {
     lines.push('', `output ${o.id}`);
-    if (o.gain.written) lines.push(`gain ${o.gain.written.text}`);
+    if (o.gain.written) lines.push(`gain ${o.gain.written.text}${gainSaturated(o) ? '  # SATURATED gain' : ''}`);
     lines.push(`delay ${o.delay.text} ${list.profile.delayUnit}`);
     for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}${scaleNote(s.scale)}${flagNote(s)}`);
   }
@@ -84,6 +84,10 @@ export function sectionFlags(s: ExportSection): string {
   if (!s.stable) flags.push(`UNSTABLE (pole radius ${s.poleRadius})`);
   if (s.saturated.length > 0) flags.push(`SATURATED ${s.saturated.join(' ')}`);
   return flags.join('; ');
+}
+
+function gainSaturated(o: ExportOutput): boolean {
+  return !!o.gain.written && o.gain.written.saturation !== 'none';
 }
 
 function flagNote(s: ExportSection): string {
@@ -107,7 +111,9 @@ export function exportCsv(list: ExportList): string {
   const rows = [header.join(',')];
   const tail = (o: ExportOutput) => [...(separate ? [o.gain.written?.text ?? ''] : []), o.delay.text];
   for (const o of list.outputs) {
-    for (const s of o.sections) rows.push([csvCell(o.id), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o), csvCell(sectionFlags(s))].join(','));
+    const gainFlag = gainSaturated(o) ? ['SATURATED gain'] : [];
+    const flags = (s: ExportSection) => csvCell([sectionFlags(s), ...gainFlag].filter(Boolean).join('; '));
+    for (const s of o.sections) rows.push([csvCell(o.id), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o), flags(s)].join(','));
     if (o.sections.length === 0) rows.push([csvCell(o.id), '0', '', ...order.map(() => ''), ...tail(o), ''].join(','));
   }
   return rows.join('\n') + '\n';
@@ -132,7 +138,7 @@ export function exportJson(list: ExportList): string {
       id: o.id,
       gain: o.gain.written ? jsonNumber(o.gain.written, hex) : null,
       delay: list.profile.delayUnit === 'samples' ? o.delay.samples : o.delay.ms,
-      gainSaturated: o.gain.written ? o.gain.written.saturation !== 'none' : false,
+      gainSaturated: gainSaturated(o),
       sections: o.sections.map((s) => ({
         from: s.from,
         coefficients: s.written.map((w) => jsonNumber(w.number, hex)),
@@ -191,7 +197,7 @@ export function exportC(list: ExportList): string {
     const lower = cIdentifier(o.id).toLowerCase();
     lines.push('', `/* output ${o.id} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
     lines.push(list.profile.delayUnit === 'samples' ? `#define BQ_${upper}_DELAY_SAMPLES ${o.delay.text}` : `#define BQ_${upper}_DELAY_MS ${o.delay.text}`);
-    if (o.gain.written) lines.push(`static const ${type} bq_${lower}_gain = ${cLiteral(o.gain.written, list)};`);
+    if (o.gain.written) lines.push(`static const ${type} bq_${lower}_gain = ${cLiteral(o.gain.written, list)};${gainSaturated(o) ? ' /* SATURATED */' : ''}`);
     if (o.sections.length === 0) {
       lines.push(`/* no sections: bq_${lower}_sos is omitted (C has no empty arrays) */`);
       continue;

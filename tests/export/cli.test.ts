@@ -40,8 +40,9 @@ describe('export', () => {
     const rows = r.stdout.trim().split('\n');
     expect(rows[0]).toBe('output,section,from,b0,b1,b2,a1,a2,gain,delaySamples,flags');
     expect(rows).toHaveLength(5);
-    // a1 of the 32 Hz input high-pass is about -1.996: negated it saturates Q1.31 at its top.
-    expect(rows[1]).toMatch(/^tweeter,1,input\/b1,.*,2147483647,.*,SATURATED b1 a1$/);
+    // a1 of the 32 Hz input high-pass is about -1.996: negated it saturates Q1.31 at its top; the
+    // output gain 1.0 (0 dB) saturates too: Q1.31 ends at 1 - 2^-31.
+    expect(rows[1]).toMatch(/^tweeter,1,input\/b1,.*,2147483647,.*,SATURATED b1 a1; SATURATED gain$/);
     expect(rows.every((row, i) => i === 0 || row.startsWith('tweeter,'))).toBe(true);
     expect(r.stderr).toMatch(/warning: saturated coefficients: tweeter section 1/);
   });
