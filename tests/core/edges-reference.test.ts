@@ -19,30 +19,10 @@
  */
 import { describe, expect, it } from 'vitest';
 import { designEdge } from '../../src/design/crossover';
-import type { BesselNormalization, CrossoverFamily, EdgeKind } from '../../src/plan/types';
 import { MAGNITUDE_FLOOR_DB } from '../../src/response/chain-response';
-import { angleDiffDeg, DB_PER_NEPER, EPS, kernelAt, loadFixture, RAD2DEG, responseAt, sensitivity, sosToSections } from '../helpers/reference';
+import { angleDiffDeg, DB_PER_NEPER, EPS, kernelAt, loadFixture, RAD2DEG, responseAt, sensitivity, sosToSections, type EdgeFixtureCase } from '../helpers/reference';
 
-interface Cols {
-  magnitudeDb: number[];
-  phaseDeg: number[];
-  groupDelaySamples: number[];
-}
-interface EdgeCase {
-  family: CrossoverFamily;
-  order: number;
-  kind: EdgeKind;
-  frequency: number;
-  sampleRate: number;
-  normalization?: BesselNormalization;
-  call: string;
-  sos: number[][];
-  freqs: number[];
-  sosfreqz: { magnitudeDb: number[]; phaseDeg: number[] };
-  sosExact: Cols;
-  design: Cols;
-  scipyGroupDelay?: { call: string; groupDelaySamples: number[] };
-}
+type EdgeCase = EdgeFixtureCase;
 
 const KERNEL_ULPS = 8;
 const DESIGN_ULPS = 64;

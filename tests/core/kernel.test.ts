@@ -7,28 +7,10 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { designEdge } from '../../src/design/crossover';
 import { designedResponse } from '../../src/response/chain-response';
 import { packSections, type Section } from '../../src/design/section';
-import type { BesselNormalization, CrossoverFamily, EdgeKind } from '../../src/plan/types';
 import { allocateKernelOutput, cascadeResponse, cascadeResponseJs, normalizedOmega, useWasmKernel, wasmKernel, type KernelOutput } from '../../src/response/kernel';
-import { angleDiffDeg, DB_PER_NEPER, EPS, loadFixture, RAD2DEG, sensitivity, sosToSections } from '../helpers/reference';
+import { angleDiffDeg, DB_PER_NEPER, EPS, loadFixture, RAD2DEG, sensitivity, sosToSections, type EdgeFixtureCase } from '../helpers/reference';
 
-interface Cols {
-  magnitudeDb: number[];
-  phaseDeg: number[];
-  groupDelaySamples: number[];
-}
-interface EdgeCase {
-  family: CrossoverFamily;
-  order: number;
-  kind: EdgeKind;
-  frequency: number;
-  sampleRate: number;
-  normalization?: BesselNormalization;
-  call: string;
-  sos: number[][];
-  freqs: number[];
-  sosExact: Cols;
-  design: Cols;
-}
+type EdgeCase = EdgeFixtureCase;
 
 type Kernel = 'js' | 'wasm';
 function evaluate(kernel: Kernel, sections: readonly Section[], omega: Float64Array): KernelOutput {

@@ -3,6 +3,7 @@
  * bound for evaluating a cascade of float64 sections.
  */
 import { readFileSync } from 'node:fs';
+import type { BesselNormalization, CrossoverFamily, EdgeKind } from '../../src/plan/types';
 import { fileURLToPath } from 'node:url';
 import { packSections, type Section } from '../../src/design/section';
 import { cascadeWithGainDelay, type Response } from '../../src/response/chain-response';
@@ -92,4 +93,26 @@ export function groupDelaySensitivity(sections: readonly Section[], w: number): 
     k += 2 * ((Math.abs(s.b0) + Math.abs(s.b1) + Math.abs(s.b2)) / n) ** 2 + 2 * ((1 + Math.abs(s.a1) + Math.abs(s.a2)) / d) ** 2;
   }
   return k;
+}
+
+/** One edge case of butterworth.json, bessel.json and linkwitz-riley.json (make_fixtures.py). */
+export interface FixtureColumns {
+  magnitudeDb: number[];
+  phaseDeg: number[];
+  groupDelaySamples: number[];
+}
+export interface EdgeFixtureCase {
+  family: CrossoverFamily;
+  order: number;
+  kind: EdgeKind;
+  frequency: number;
+  sampleRate: number;
+  normalization?: BesselNormalization;
+  call: string;
+  sos: number[][];
+  freqs: number[];
+  sosfreqz: { magnitudeDb: number[]; phaseDeg: number[] };
+  sosExact: FixtureColumns;
+  design: FixtureColumns;
+  scipyGroupDelay?: { call: string; groupDelaySamples: number[] };
 }

@@ -3,7 +3,7 @@
  * preload exposes `DesktopApi` as `window.biquadrant`; in a plain browser the same calls fall
  * back to a file picker, a download, local storage and the clipboard API.
  */
-import type { DesktopApi, HostResult, MenuCommand, PlanDocument } from '../../../src/ipc';
+import type { DesktopApi, HostResult, MenuCommand } from '../../../src/ipc';
 import { readPlanText } from '../../../src/plan/read';
 import { writePlanText } from '../../../src/plan/write';
 import type { Plan } from '../../../src/plan/types';
@@ -14,20 +14,10 @@ declare global {
   }
 }
 
-export interface Host {
+/** The host as the renderer sees it: the preload's API (less the menu-only Open Recent) and the clipboard. */
+export interface Host extends Omit<DesktopApi, 'openRecent'> {
   readonly kind: 'desktop' | 'browser';
-  openPlan(): Promise<HostResult<PlanDocument>>;
-  savePlan(plan: Plan, path: string | null): Promise<HostResult<string>>;
-  savePlanAs(plan: Plan, suggestedPath: string | null): Promise<HostResult<string>>;
-  revertPlan(path: string): Promise<HostResult<PlanDocument>>;
-  autosave(doc: PlanDocument): Promise<void>;
-  takeRecovery(): Promise<PlanDocument | null>;
-  discardRecovery(): Promise<void>;
-  initialDocument(): Promise<HostResult<PlanDocument> | null>;
-  setDirty(dirty: boolean, title: string, path?: string | null): void;
-  saveText(suggestedName: string, text: string, extensions: string[]): Promise<HostResult<string>>;
   copyText(text: string): Promise<HostResult<true>>;
-  onMenuCommand(listener: (command: MenuCommand) => void): () => void;
 }
 
 function message(e: unknown): string {
