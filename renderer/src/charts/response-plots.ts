@@ -19,7 +19,7 @@
 import type { ChartConfiguration, Plugin, Scale } from 'chart.js';
 import type { Response } from '../../../src/response/chain-response';
 import { inkOn } from '../lib/palette';
-import { Chart, frequencyTickLabel, installFrequencyTicks, readTheme, Y_AXIS_WIDTH, type Theme } from './setup';
+import { Chart, frequencyTickLabel, installFrequencyTicks, readTheme, STATIC_PLOT_OPTIONS, Y_AXIS_WIDTH, type Theme } from './setup';
 
 export type PlotKind = 'magnitude' | 'phase' | 'groupDelay';
 export const PLOT_KINDS: readonly PlotKind[] = ['magnitude', 'phase', 'groupDelay'];
@@ -229,16 +229,9 @@ export class ResponsePlots {
       type: 'line',
       data: { datasets: [] },
       options: {
-        parsing: false,
-        normalized: true,
-        animation: false,
-        responsive: true,
-        maintainAspectRatio: false,
-        events: [],
-        spanGaps: false,
+        ...STATIC_PLOT_OPTIONS,
         layout: { padding: { top: 6, right: 10, bottom: 0, left: 0 } },
         elements: { point: { radius: 0, hitRadius: 0, hoverRadius: 0 }, line: { tension: 0, borderCapStyle: 'round', borderJoinStyle: 'round' } },
-        plugins: { legend: { display: false }, tooltip: { enabled: false } } as never,
         scales: {
           x: {
             type: 'logarithmic',

@@ -10,6 +10,22 @@ Chart.register(LineController, ScatterController, LineElement, PointElement, Lin
 
 export { Chart };
 
+/**
+ * The options every line plot here shares (Chart.js's own performance notes): data already in
+ * its internal shape, no parsing, no animation (enables path caching), no Chart.js event
+ * handling (the app does its own hover and drag), and no legend or tooltip of Chart.js's.
+ */
+export const STATIC_PLOT_OPTIONS = {
+  parsing: false,
+  normalized: true,
+  animation: false,
+  responsive: true,
+  maintainAspectRatio: false,
+  events: [] as never[],
+  spanGaps: false,
+  plugins: { legend: { display: false }, tooltip: { enabled: false } } as never,
+} as const;
+
 export interface Theme {
   text: string;
   muted: string;
