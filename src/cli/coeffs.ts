@@ -6,6 +6,8 @@
  */
 import { designPlan, type DesignedOutput } from '../design/chain';
 import type { Plan } from '../plan/types';
+import { cComment, cDoubleText, cIdentifier } from '../export/format';
+import { numText } from '../export/list';
 
 export interface CoeffsListing {
   sampleRate: number;
@@ -34,11 +36,6 @@ function listOutput(d: DesignedOutput): CoeffsListing['outputs'][number] {
   };
 }
 
-/** Shortest round-trip decimal; -0 written as 0. */
-export function num(x: number): string {
-  return Object.is(x, -0) ? '0' : String(x);
-}
-
 export function coeffsJsonText(l: CoeffsListing): string {
   return JSON.stringify(l, null, 2) + '\n';
 }
@@ -47,9 +44,9 @@ export function coeffsCsvText(l: CoeffsListing): string {
   const rows = ['output,section,from,b0,b1,b2,a1,a2,gain,delayMs,delaySamples'];
   for (const o of l.outputs) {
     o.sections.forEach((s, i) => {
-      rows.push([o.id, i + 1, s.from, num(s.b0), num(s.b1), num(s.b2), num(s.a1), num(s.a2), num(o.gain), num(o.delayMs), o.delaySamples].join(','));
+      rows.push([o.id, i + 1, s.from, numText(s.b0), numText(s.b1), numText(s.b2), numText(s.a1), numText(s.a2), numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
     });
-    if (o.sections.length === 0) rows.push([o.id, 0, '', '', '', '', '', '', num(o.gain), num(o.delayMs), o.delaySamples].join(','));
+    if (o.sections.length === 0) rows.push([o.id, 0, '', '', '', '', '', '', numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
   }
   return rows.join('\n') + '\n';
 }
@@ -61,29 +58,23 @@ export function coeffsText(l: CoeffsListing, planName: string): string {
     '# H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order',
   ];
   for (const o of l.outputs) {
-    lines.push('', `output ${o.id}: gain ${num(o.gain)} (linear, polarity included), delay ${num(o.delayMs)} ms = ${o.delaySamples} samples, ${o.sections.length} sections`);
+    lines.push('', `output ${o.id}: gain ${numText(o.gain)} (linear, polarity included), delay ${numText(o.delayMs)} ms = ${o.delaySamples} samples, ${o.sections.length} sections`);
     o.sections.forEach((s, i) => {
-      lines.push(`  ${String(i + 1).padStart(2)}  b0=${num(s.b0)} b1=${num(s.b1)} b2=${num(s.b2)} a1=${num(s.a1)} a2=${num(s.a2)}  (${s.from})`);
+      lines.push(`  ${String(i + 1).padStart(2)}  b0=${numText(s.b0)} b1=${numText(s.b1)} b2=${numText(s.b2)} a1=${numText(s.a1)} a2=${numText(s.a2)}  (${s.from})`);
     });
   }
   return lines.join('\n') + '\n';
 }
 
 /** A C literal that reads back to the same double. */
-export function cDouble(x: number): string {
-  const s = num(x);
-  return /[.eE]/.test(s) ? s : `${s}.0`;
-}
-
-export function cIdentifier(id: string): string {
-  const s = id.replace(/[^A-Za-z0-9_]/g, '_');
-  return /^[0-9]/.test(s) ? `_${s}` : s;
+function cDouble(x: number): string {
+  return cDoubleText(numText(x));
 }
 
 export function coeffsCText(l: CoeffsListing, planName: string): string {
   const lines = [
     '/*',
-    ` * Biquad coefficients: ${planName.replace(/\*\//g, '* /')}`,
+    ` * Biquad coefficients: ${cComment(planName)}`,
     ` * Sample rate: ${l.sampleRate} Hz`,
     ' * Convention: H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2),',
     ' * y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] - a1 y[n-1] - a2 y[n-2].',
@@ -107,7 +98,7 @@ export function coeffsCText(l: CoeffsListing, planName: string): string {
     lines.push(`static const double bq_${lower}_sos[${o.sections.length}][5] = {`);
     o.sections.forEach((s, i) => {
       const sep = i === o.sections.length - 1 ? '' : ',';
-      lines.push(`  { ${[s.b0, s.b1, s.b2, s.a1, s.a2].map(cDouble).join(', ')} }${sep} /* ${s.from.replace(/\*\//g, '* /')} */`);
+      lines.push(`  { ${[s.b0, s.b1, s.b2, s.a1, s.a2].map(cDouble).join(', ')} }${sep} /* ${cComment(s.from)} */`);
     });
     lines.push('};');
   }

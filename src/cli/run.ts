@@ -9,7 +9,8 @@ import { readPlanText } from '../plan/read';
 import type { Plan } from '../plan/types';
 import { designedResponse, logFrequencies, MAGNITUDE_FLOOR_DB, type Response } from '../response/chain-response';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
-import { coeffsCsvText, coeffsCText, coeffsJsonText, coeffsListing, coeffsText, num } from './coeffs';
+import { coeffsCsvText, coeffsCText, coeffsJsonText, coeffsListing, coeffsText } from './coeffs';
+import { numText } from '../export/list';
 import { cmdExport, cmdImport, cmdProfiles, quantizedResponseText } from './export';
 
 export interface CliIo {
@@ -169,9 +170,9 @@ export function responseCsv(freqs: Float64Array, named: { id: string; cols: Resp
   const header = ['frequencyHz'];
   for (const n of named) header.push(`${n.id}.magnitudeDb`, `${n.id}.phaseDeg`, `${n.id}.groupDelayMs`);
   const rows = [header.join(',')];
-  const cell = (x: number | null) => (x === null ? '' : num(x));
+  const cell = (x: number | null) => (x === null ? '' : numText(x));
   for (let i = 0; i < freqs.length; i++) {
-    const row = [num(freqs[i])];
+    const row = [numText(freqs[i])];
     for (const n of named) row.push(cell(n.cols.magnitudeDb[i]), cell(n.cols.phaseDeg[i]), cell(n.cols.groupDelayMs[i]));
     rows.push(row.join(','));
   }

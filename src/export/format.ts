@@ -160,14 +160,20 @@ export function cIdentifier(id: string): string {
   return /^[0-9]/.test(s) ? `_${s}` : s;
 }
 
-function cComment(s: string): string {
+/** Text made safe inside a C block comment (a star-slash in it would end the comment). */
+export function cComment(s: string): string {
   return s.replace(/\*\//g, '* /');
+}
+
+/** A decimal text as a C double literal ("1" -> "1.0"; "0.5", "1e-7" as they are). */
+export function cDoubleText(text: string): string {
+  return /[.eE]/.test(text) ? text : `${text}.0`;
 }
 
 /** A C literal for a written number, in the type the header declares. */
 function cLiteral(w: WrittenNumber, list: ExportList): string {
   const n = list.profile.number;
-  if (n.kind === 'decimal') return /[.eE]/.test(w.text) ? w.text : `${w.text}.0`;
+  if (n.kind === 'decimal') return cDoubleText(w.text);
   if (n.notation === 'hex') return w.text;
   const bits = n.wordBits > 16 ? 32 : 16;
   // The most negative value has no literal of its own in C (the literal is the positive part).
