@@ -8,12 +8,12 @@ import { EXPORT_FORMATS, formatExport, type ExportFormat } from '../export/forma
 import { importedPlan, parseCoefficientList, type ImportFormat } from '../export/import';
 import { BUILT_IN_PROFILES, DEFAULT_PROFILE, describeProfile, findBuiltInProfile, readProfileValue, copyProfile } from '../export/profiles';
 import { quantizeProfile } from '../export/quantized';
+import { qName } from '../export/fixed';
 import type { BoardProfile, Plan } from '../plan/types';
 import { bareNonFiniteNumber } from '../plan/read';
 import { profileToJson, writePlanText } from '../plan/write';
-import { designedResponse } from '../response/chain-response';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
-import { checkOutputId, InputError, loadPlan, responseColumns, responseCsv, responseFrequencies, type CliIo, type CliResult } from './run';
+import { checkOutputId, InputError, loadPlan, responseFrequencies, responseResult, type CliIo, type CliResult } from './run';
 
 /** --profile: a built-in by key or name, else a JSON file (a profile, or a plan holding one). */
 export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): BoardProfile {
@@ -117,17 +117,6 @@ export function quantizedResponseText(plan: Plan, args: ParsedArgs, q: string, f
       return { ...e.quantized, from: s.from };
     }),
   }));
-  const r = designedResponse(designed, freqs, plan.sampleRate);
-  const outputs = r.outputs.filter((o) => !o.mute).map((o) => ({ id: o.id, cols: responseColumns(o.response) }));
-  const sum = responseColumns(r.sum);
-  const stderr = warnings.map((w) => w + '\n').join('');
-  if (format === 'csv') return { code: 0, stdout: responseCsv(freqs, [...outputs, { id: 'sum', cols: sum }]), stderr };
-  const json = {
-    sampleRate: plan.sampleRate,
-    quantize: `Q${profile.number.kind === 'fixed' ? `${profile.number.integerBits}.${profile.number.fractionBits}` : ''}`,
-    frequencies: Array.from(freqs),
-    outputs: outputs.map((o) => ({ id: o.id, ...o.cols })),
-    sum,
-  };
-  return { code: 0, stdout: JSON.stringify(json) + '\n', stderr };
+  const quantize = profile.number.kind === 'fixed' ? qName(profile.number) : 'Q';
+  return responseResult(designed, plan.sampleRate, freqs, format, { quantize }, warnings.map((w) => w + '\n').join(''));
 }

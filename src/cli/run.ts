@@ -4,7 +4,7 @@
  * adapter that runs it on process.argv.
  */
 import { analyzePlan } from '../analysis/check';
-import { designPlan } from '../design/chain';
+import { designPlan, type DesignedOutput } from '../design/chain';
 import { readPlanText } from '../plan/read';
 import type { Plan } from '../plan/types';
 import { designedResponse, logFrequencies, MAGNITUDE_FLOOR_DB, type Response } from '../response/chain-response';
@@ -186,19 +186,35 @@ function cmdResponse(argv: string[], io: CliIo): CliResult {
   const quantize = optString(args, 'quantize');
   if (quantize !== undefined) return quantizedResponseText(plan, args, quantize, format);
   const freqs = responseFrequencies(args, plan.sampleRate);
-  const r = designedResponse(designPlan(plan), freqs, plan.sampleRate);
+  return responseResult(designPlan(plan), plan.sampleRate, freqs, format);
+}
+
+/**
+ * The `response` output of designed outputs: each unmuted output and the sum, as CSV or JSON.
+ * `extra` fields follow `sampleRate` in the JSON (the quantized branch names its format there).
+ */
+export function responseResult(
+  designed: readonly DesignedOutput[],
+  sampleRate: number,
+  freqs: Float64Array,
+  format: 'json' | 'csv',
+  extra: Record<string, unknown> = {},
+  stderr = '',
+): CliResult {
+  const r = designedResponse(designed, freqs, sampleRate);
   const outputs = r.outputs.filter((o) => !o.mute).map((o) => ({ id: o.id, cols: responseColumns(o.response) }));
   const sum = responseColumns(r.sum);
   if (format === 'csv') {
-    return { code: 0, stdout: responseCsv(freqs, [...outputs, { id: 'sum', cols: sum }]), stderr: '' };
+    return { code: 0, stdout: responseCsv(freqs, [...outputs, { id: 'sum', cols: sum }]), stderr };
   }
   const json = {
-    sampleRate: plan.sampleRate,
+    sampleRate,
+    ...extra,
     frequencies: Array.from(freqs),
     outputs: outputs.map((o) => ({ id: o.id, ...o.cols })),
     sum,
   };
-  return { code: 0, stdout: JSON.stringify(json) + '\n', stderr: '' };
+  return { code: 0, stdout: JSON.stringify(json) + '\n', stderr };
 }
 
 function cmdCheck(argv: string[], io: CliIo): CliResult {
