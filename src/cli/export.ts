@@ -6,7 +6,7 @@ import { designPlan } from '../design/chain';
 import { exportSection, buildExportList, type ExportList } from '../export/list';
 import { EXPORT_FORMATS, formatExport, type ExportFormat } from '../export/format';
 import { importedPlan, parseCoefficientList, type ImportFormat } from '../export/import';
-import { BUILT_IN_PROFILES, DEFAULT_PROFILE, describeProfile, findBuiltInProfile, readProfileValue, copyProfile } from '../export/profiles';
+import { BUILT_IN_PROFILES, DEFAULT_PROFILE, describeProfile, findBuiltInProfile, readProfileValue, copyProfile, profileErrorText } from '../export/profiles';
 import { quantizeProfile } from '../export/quantized';
 import { qName } from '../export/fixed';
 import type { BoardProfile, Plan } from '../plan/types';
@@ -38,7 +38,7 @@ export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): 
     throw new InputError(`${name}: not valid JSON (${(e as Error).message})`);
   }
   const r = readProfileValue(value);
-  if (!r.ok) throw new InputError(`${name}: ${r.error.path ? r.error.message : `profile: ${r.error.reason}`}`);
+  if (!r.ok) throw new InputError(`${name}: ${profileErrorText(r.error)}`);
   return r.profile;
 }
 

@@ -5,7 +5,8 @@
  * output; the float profile is generous so that nothing is refused by accident.
  */
 import { readBoardProfile, PlanError } from '../plan/read';
-import type { BoardProfile, CoefficientName } from '../plan/types';
+import { PLAN_FORMAT, type BoardProfile, type CoefficientName } from '../plan/types';
+import { qName } from './fixed';
 
 export interface BuiltInProfile {
   /** Short key for the command line (`--profile q5.23`). */
@@ -103,7 +104,7 @@ export function findBuiltInProfile(nameOrKey: string): BoardProfile | null {
  */
 export function readProfileValue(value: unknown): { ok: true; profile: BoardProfile } | { ok: false; error: PlanError } {
   try {
-    if (typeof value === 'object' && value !== null && !Array.isArray(value) && (value as Record<string, unknown>).format === 'biquadrant.plan') {
+    if (typeof value === 'object' && value !== null && !Array.isArray(value) && (value as Record<string, unknown>).format === PLAN_FORMAT) {
       const p = (value as Record<string, unknown>).profile;
       if (p === undefined || p === null) return { ok: false, error: new PlanError('profile', 'this plan has no board profile') };
       return { ok: true, profile: readBoardProfile(p, 'profile') };
@@ -134,7 +135,7 @@ export function describeProfile(p: BoardProfile, planSampleRate: number): string
       ? p.number.significantDigits === null
         ? 'decimal, shortest exact form'
         : `decimal, ${p.number.significantDigits} significant digits`
-      : `Q${p.number.integerBits}.${p.number.fractionBits} in ${p.number.wordBits}-bit words, ${p.number.notation === 'hex' ? "two's-complement hex" : 'signed decimal integers'}`;
+      : `${qName(p.number)} in ${p.number.wordBits}-bit words, ${p.number.notation === 'hex' ? "two's-complement hex" : 'signed decimal integers'}`;
   const parts = [
     `${rate} Hz`,
     `order ${effectiveOrder(p).join(' ')}`,

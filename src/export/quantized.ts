@@ -7,7 +7,7 @@
  * board's own numbers, not a second rounding of them.
  */
 import type { Section } from '../design/section';
-import { parseQFormat } from './fixed';
+import { parseQFormat, qName } from './fixed';
 import { cascadeWithGainDelay, type Response } from '../response/chain-response';
 import { normalizedOmega } from '../response/kernel';
 import type { BoardProfile } from '../plan/types';
@@ -77,7 +77,7 @@ export function quantizeProfile(q: string): BoardProfile | null {
   const f = parseQFormat(q);
   if (!f) return null;
   const p = copyProfile(DEFAULT_PROFILE);
-  p.name = `Q${f.integerBits}.${f.fractionBits} (response check)`;
+  p.name = `${qName(f)} (response check)`;
   p.number = { kind: 'fixed', ...f, notation: 'decimal' };
   p.sectionBudget = 1024;
   return p;
