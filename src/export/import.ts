@@ -11,22 +11,16 @@
  * one section per line, numbers separated by spaces, commas, semicolons or tabs, `#` and `//`
  * comments, optional `output ID`, `gain X` and `delay X [samples|ms]` lines.
  */
-import type { Band, BoardProfile, CoefficientName, Plan } from '../plan/types';
+import type { Band, BoardProfile, CoefficientName, Plan, RawCoefficients } from '../plan/types';
 import { LIMITS, PLAN_FORMAT, PLAN_VERSION } from '../plan/types';
 import { readBoardProfile, PlanError } from '../plan/read';
-import { fixedRange, fromHex, qName } from './fixed';
+import { fixedRange, fromFixed, fromHex, qName } from './fixed';
 import { writeFactor } from './list';
 import { effectiveOrder } from './profiles';
 import { COEFFICIENTS_FORMAT } from './format';
 
-export interface ImportedSection {
-  b0: number;
-  b1: number;
-  b2: number;
-  /** 1 unless a decimal list wrote another a0 (fixed-point boards take a0 as exactly 1). */
-  a0: number;
-  a1: number;
-  a2: number;
+/** A section as a raw band holds it; a0 is 1 unless a decimal list wrote another (fixed-point boards take a0 as exactly 1). */
+export interface ImportedSection extends RawCoefficients {
   /** Where the export said it came from, when it did. */
   from?: string;
 }
@@ -111,7 +105,7 @@ export function readToken(token: string, profile: BoardProfile, where: string): 
   }
   const { min, max } = fixedRange(n);
   if (integer < min || integer > max) throw new ImportError(where, `${t} is outside ${qName(n)} (${min} .. ${max})`);
-  return integer * 2 ** -n.fractionBits;
+  return fromFixed(integer, n);
 }
 
 function toSection(values: number[], names: CoefficientName[], profile: BoardProfile, where: string, from?: string): ImportedSection {
