@@ -7,6 +7,7 @@ import { designInput, designOutput, type DesignedOutput } from '../design/chain'
 import type { Band, Output, Plan } from '../plan/types';
 import { headroom, type Headroom } from './headroom';
 import { largestPoleRadius } from './poles';
+import { formatFrequency } from '../ui/units';
 
 export type Severity = 'info' | 'warning' | 'danger';
 
@@ -69,9 +70,8 @@ function nearNyquist(plan: Plan, bands: Band[], where: string, warnings: Warning
   }
 }
 
-export function fmtHz(f: number): string {
-  return f >= 1000 ? `${+(f / 1000).toPrecision(4)} kHz` : `${+f.toPrecision(4)} Hz`;
-}
+/** Frequencies in warnings read as in the app's fields ("63 Hz", "2.2 kHz"): `formatFrequency`. */
+export const fmtHz = formatFrequency;
 
 export function analyzeOutput(plan: Plan, d: DesignedOutput): OutputAnalysis {
   const r = largestPoleRadius(d.sections);
