@@ -76,15 +76,19 @@ export function suggestOrderAndScaling(sections: readonly Section[], sampleRateH
   const reordered = order.map((i) => sections[i]);
   const peaksUnscaled = partialCascadePeaks(reordered, sampleRateHz);
   const scales: number[] = [];
+  const peaks: PartialPeak[] = [];
   let previous = 1;
   for (const p of peaksUnscaled) {
     const s = 1 / Math.max(1, Math.pow(10, p.peakDb / 20));
     scales.push(s / previous);
+    // The scaled partial cascade is the unscaled one times S_k at every frequency: same peak
+    // frequency, peak lower by 20 log10 S_k (no second search needed).
+    peaks.push({ ...p, peakDb: p.peakDb + 20 * Math.log10(s) });
     previous = s;
   }
   const scaled = reordered.map((s, k) => ({ ...s, b0: s.b0 * scales[k], b1: s.b1 * scales[k], b2: s.b2 * scales[k] }));
-  const peaks = partialCascadePeaks(scaled, sampleRateHz);
-  const given = current ?? partialCascadePeaks(sections, sampleRateHz);
+  const unchangedOrder = order.every((i, k) => i === k);
+  const given = current ?? (unchangedOrder ? peaksUnscaled : partialCascadePeaks(sections, sampleRateHz));
   return {
     method: SCALING_METHOD,
     order,

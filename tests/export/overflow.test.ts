@@ -64,6 +64,20 @@ describe('suggested order and scaling', () => {
     for (let i = 0; i < f.length; i++) expect(after[i] - before[i]).toBeCloseTo(s.levelChangeDb, 9);
   });
 
+  it('states the scaled peaks that a search of the scaled sections finds (each <= 0 dB)', () => {
+    // Scaling b0 b1 b2 by S multiplies the partial response by S at every frequency, so the
+    // stated peaks may be derived; here they are measured again on the sections themselves.
+    const sections = [peaking(80, 9, 4), peaking(3000, -4, 1), peaking(300, 5, 0.7), peaking(9000, 3, 2)];
+    const s = suggestOrderAndScaling(sections, FS);
+    const measured = partialCascadePeaks(s.sections, FS);
+    expect(s.peaks.map((p) => p.through)).toEqual(measured.map((p) => p.through));
+    s.peaks.forEach((p, k) => {
+      expect(p.peakDb).toBeCloseTo(measured[k].peakDb, 9);
+      expect(p.frequencyHz).toBeCloseTo(measured[k].frequencyHz, 3);
+    });
+    expect(Math.max(...measured.map((p) => p.peakDb))).toBeLessThanOrEqual(OVERFLOW_TOLERANCE_DB);
+  });
+
   it('says a cascade with no internal peak above 0 dBFS is already safe', () => {
     const s = suggestOrderAndScaling([peaking(100, -3, 1), peaking(1000, -6, 1)], FS);
     expect(s.alreadySafe).toBe(true);
