@@ -28,9 +28,6 @@ export function normalizeSection(b0: number, b1: number, b2: number, a0: number,
   return { b0: b0 / a0, b1: b1 / a0, b2: b2 / a0, a1: a1 / a0, a2: a2 / a0 };
 }
 
-/** The identity section H(z) = 1. */
-export const UNITY: Readonly<Section> = Object.freeze({ b0: 1, b1: 0, b2: 0, a1: 0, a2: 0 });
-
 /** Packs sections as [b0, b1, b2, a1, a2] per section into one Float64Array for the response kernel. */
 export function packSections(sections: readonly Section[], into?: Float64Array): Float64Array {
   const out = into && into.length >= sections.length * SECTION_STRIDE ? into : new Float64Array(sections.length * SECTION_STRIDE);

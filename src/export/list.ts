@@ -25,7 +25,7 @@ import type { Section } from '../design/section';
 import { readPlanValue } from '../plan/read';
 import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
-import { fromFixed, toFixed, toHex, type FixedFormat, type Saturation } from './fixed';
+import { fromFixed, toFixed, toHex, type Saturation } from './fixed';
 import { effectiveOrder } from './profiles';
 import { suggestOrderAndScaling } from './overflow';
 
@@ -213,10 +213,6 @@ export function numText(x: number): string {
   return Object.is(x, -0) ? '0' : String(x);
 }
 
-export function fixedFormatOf(profile: BoardProfile): FixedFormat | null {
-  return profile.number.kind === 'fixed' ? profile.number : null;
-}
-
 /** One value in the profile's number format (no pre-scaling or sign change here). */
 export function writeNumber(x: number, profile: BoardProfile): WrittenNumber {
   const n = profile.number;
@@ -288,9 +284,4 @@ export function quantizedSections(o: ExportOutput): Section[] {
 /** The ideal sections of an output (gain folded in when the profile folds it), in list order. */
 export function idealSections(o: ExportOutput): Section[] {
   return o.sections.map((s) => s.ideal);
-}
-
-/** Human text for the problems, one line each. */
-export function problemLines(problems: readonly ExportProblem[]): string[] {
-  return problems.map((p) => p.message);
 }

@@ -6,7 +6,6 @@
  * board's value exactly (|integer| < 2^33), so evaluating the response in double precision sees the
  * board's own numbers, not a second rounding of them.
  */
-import type { Section } from '../design/section';
 import { parseQFormat, qName } from './fixed';
 import { cascadeWithGainDelay, type Response } from '../response/chain-response';
 import { normalizedOmega } from '../response/kernel';
@@ -81,9 +80,4 @@ export function quantizeProfile(q: string): BoardProfile | null {
   p.number = { kind: 'fixed', ...f, notation: 'decimal' };
   p.sectionBudget = 1024;
   return p;
-}
-
-/** Sections as the board computes them, for callers that only need the numbers. */
-export function boardSections(o: ExportOutput): Section[] {
-  return quantizedSections(o);
 }
