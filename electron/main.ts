@@ -24,7 +24,7 @@ import {
   type SaveDialogOptions,
 } from 'electron';
 import { readFile } from 'node:fs/promises';
-import { dirname, join, normalize } from 'node:path';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { IPC, type HostResult, type MenuCommand, type PlanDocument } from '../src/ipc';
 import type { Plan } from '../src/plan/types';
@@ -32,7 +32,7 @@ import { RecoveryStore } from './autosave';
 import { isPlanPath, readPlanFile, savePlanFile, saveTextFile, withPlanExtension } from './files';
 import { planPathsFromArgv } from './launch-args';
 import { buildMenuTemplate } from './menu';
-import { addRecent, defaultCaseInsensitive, hasRecent, loadRecent, removeRecent, saveRecent } from './recent';
+import { addRecent, defaultCaseInsensitive, hasRecent, loadRecent, removeRecent, samePathKey, saveRecent } from './recent';
 import { APP_BASE, APP_ENTRY_URL, APP_SCHEME, appResponseHeaders, contentSecurityPolicy, resolveAppAsset, withCsp } from './security';
 import { APP_NAME, documentLabel, windowTitle } from './title';
 import {
@@ -94,8 +94,7 @@ const pendingOpen: string[] = [];
 let ready = false;
 
 function pathKey(path: string): string {
-  const n = normalize(path);
-  return CASE_INSENSITIVE ? n.toLowerCase() : n;
+  return samePathKey(path, CASE_INSENSITIVE);
 }
 
 function grant(state: WindowState, path: string): void {

@@ -5,8 +5,9 @@
  * a missing or damaged file is an empty list (the list is a convenience, never worth an error).
  */
 import { mkdir } from 'node:fs/promises';
-import { dirname, isAbsolute, normalize } from 'node:path';
+import { dirname, normalize } from 'node:path';
 import { realFileSystem, writeFileAtomic, type FileSystem } from './files';
+import { validatePath } from './validate';
 
 export const RECENT_MAX = 10;
 
@@ -20,7 +21,8 @@ export function defaultCaseInsensitive(platform: NodeJS.Platform = process.platf
   return platform === 'win32' || platform === 'darwin';
 }
 
-function sameKey(path: string, caseInsensitive: boolean): string {
+/** What two paths of the same file have in common: normalized, and lower case where letter case does not count. */
+export function samePathKey(path: string, caseInsensitive: boolean): string {
   const n = normalize(path);
   return caseInsensitive ? n.toLowerCase() : n;
 }
@@ -29,21 +31,21 @@ function sameKey(path: string, caseInsensitive: boolean): string {
 export function addRecent(list: readonly string[], path: string, options: RecentOptions = {}): string[] {
   const max = options.max ?? RECENT_MAX;
   const ci = options.caseInsensitive ?? defaultCaseInsensitive();
-  const key = sameKey(path, ci);
-  const rest = list.filter((p) => sameKey(p, ci) !== key);
+  const key = samePathKey(path, ci);
+  const rest = list.filter((p) => samePathKey(p, ci) !== key);
   return [normalize(path), ...rest].slice(0, max);
 }
 
 export function removeRecent(list: readonly string[], path: string, options: RecentOptions = {}): string[] {
   const ci = options.caseInsensitive ?? defaultCaseInsensitive();
-  const key = sameKey(path, ci);
-  return list.filter((p) => sameKey(p, ci) !== key);
+  const key = samePathKey(path, ci);
+  return list.filter((p) => samePathKey(p, ci) !== key);
 }
 
 export function hasRecent(list: readonly string[], path: string, options: RecentOptions = {}): boolean {
   const ci = options.caseInsensitive ?? defaultCaseInsensitive();
-  const key = sameKey(path, ci);
-  return list.some((p) => sameKey(p, ci) === key);
+  const key = samePathKey(path, ci);
+  return list.some((p) => samePathKey(p, ci) === key);
 }
 
 /** Keeps only absolute path strings, deduplicated and capped: what a stored list may hold. */
@@ -54,7 +56,7 @@ export function sanitizeRecent(value: unknown, options: RecentOptions = {}): str
   let out: string[] = [];
   // Oldest first through addRecent, so the stored order (newest first) is kept.
   for (const p of [...list].reverse()) {
-    if (typeof p === 'string' && p.length > 0 && p.length <= 4096 && !p.includes('\0') && isAbsolute(p)) {
+    if (validatePath(p).ok) {
       out = addRecent(out, p, options);
     }
   }
