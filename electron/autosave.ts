@@ -15,7 +15,7 @@ import { join } from 'node:path';
 import { readPlanValue } from '../src/plan/read';
 import { planToJson } from '../src/plan/write';
 import type { PlanDocument } from '../src/ipc';
-import { realFileSystem, writeFileAtomic, type FileSystem } from './files';
+import { errorCode, realFileSystem, writeFileAtomic, type FileSystem } from './files';
 
 export const RECOVERY_FORMAT = 'biquadrant.recovery';
 export const RECOVERY_VERSION = 1;
@@ -98,7 +98,7 @@ export class RecoveryStore {
       try {
         await this.fs.unlink(path);
       } catch (e) {
-        if ((e as { code?: string }).code !== 'ENOENT') throw e;
+        if (errorCode(e) !== 'ENOENT') throw e;
       }
     });
   }
@@ -114,7 +114,7 @@ export class RecoveryStore {
         await this.fs.rename(path, join(this.dir, `left-${this.now().getTime()}-${windowId}.json`));
         return true;
       } catch (e) {
-        if ((e as { code?: string }).code === 'ENOENT') return false;
+        if (errorCode(e) === 'ENOENT') return false;
         throw e;
       }
     });

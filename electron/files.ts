@@ -59,7 +59,8 @@ export const realFileSystem: FileSystem = {
 
 export type FileResult<T> = { ok: true; value: T } | { ok: false; error: string };
 
-function errorCode(e: unknown): string | undefined {
+/** The `code` of a Node file system error (`ENOENT`...), if it has one. */
+export function errorCode(e: unknown): string | undefined {
   return typeof e === 'object' && e !== null && 'code' in e ? String((e as { code: unknown }).code) : undefined;
 }
 
