@@ -251,6 +251,11 @@ function createWindow(options: { initialPath?: string; offersRecovery?: boolean 
   return state;
 }
 
+function bringToFront(state: WindowState): void {
+  if (state.win.isMinimized()) state.win.restore();
+  state.win.focus();
+}
+
 /** One window per plan: focus the window that shows `path`, or open a new one for it. */
 function openInWindow(path: string): void {
   if (!ready) {
@@ -258,11 +263,7 @@ function openInWindow(path: string): void {
     return;
   }
   const showing = windowShowing(path);
-  if (showing) {
-    if (showing.win.isMinimized()) showing.win.restore();
-    showing.win.focus();
-    return;
-  }
+  if (showing) return bringToFront(showing);
   createWindow({ initialPath: path });
 }
 
@@ -542,14 +543,10 @@ function registerIpc(): void {
 
 function hardenSessions(): void {
   const ses = session.defaultSession;
-  ses.setPermissionRequestHandler((contents, permission, callback) => {
-    // Clipboard writes (copying coefficients) and full screen are all the page may ask for.
-    const fromApp = isAppUrl(contents.getURL(), APP_URL_BASE);
-    callback(fromApp && (permission === 'clipboard-sanitized-write' || permission === 'fullscreen'));
-  });
-  ses.setPermissionCheckHandler((_contents, permission, requestingOrigin) => {
-    return isAppUrl(requestingOrigin, APP_URL_BASE) && (permission === 'clipboard-sanitized-write' || permission === 'fullscreen');
-  });
+  // Clipboard writes (copying coefficients) and full screen are all the page may ask for.
+  const allowed = (url: string, permission: string) => isAppUrl(url, APP_URL_BASE) && (permission === 'clipboard-sanitized-write' || permission === 'fullscreen');
+  ses.setPermissionRequestHandler((contents, permission, callback) => callback(allowed(contents.getURL(), permission)));
+  ses.setPermissionCheckHandler((_contents, permission, requestingOrigin) => allowed(requestingOrigin, permission));
   ses.webRequest.onHeadersReceived((details, callback) => {
     if (isAppUrl(details.url, APP_URL_BASE)) callback({ responseHeaders: withCsp(details.responseHeaders, CSP) });
     else callback({});
@@ -607,10 +604,8 @@ if (!app.requestSingleInstanceLock()) {
       return;
     }
     const first = [...windows.values()][0];
-    if (first) {
-      if (first.win.isMinimized()) first.win.restore();
-      first.win.focus();
-    } else if (ready) createWindow({});
+    if (first) bringToFront(first);
+    else if (ready) createWindow({});
   });
   // macOS: a plan double-clicked in the Finder or dropped on the Dock icon (may come before `ready`).
   app.on('open-file', (event, path) => {
