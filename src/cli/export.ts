@@ -10,7 +10,7 @@ import { BUILT_IN_PROFILES, DEFAULT_PROFILE, describeProfile, findBuiltInProfile
 import { quantizeProfile } from '../export/quantized';
 import { qName } from '../export/fixed';
 import type { BoardProfile, Plan } from '../plan/types';
-import { bareNonFiniteNumber } from '../plan/read';
+import { parseJsonText } from '../plan/read';
 import { profileToJson, writePlanText } from '../plan/write';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
 import { checkOutputId, InputError, loadPlan, responseFrequencies, responseResult, type CliIo, type CliResult } from './run';
@@ -29,15 +29,9 @@ export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): 
       `--profile ${name}: neither a built-in profile (${BUILT_IN_PROFILES.map((b) => b.key).join(', ')}) nor a readable file (${(e as Error).message})`,
     );
   }
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch (e) {
-    const bare = bareNonFiniteNumber(text);
-    if (bare) throw new InputError(`${name}: ${bare.path}: must be a finite number, not ${bare.token} (not valid JSON either)`);
-    throw new InputError(`${name}: not valid JSON (${(e as Error).message})`);
-  }
-  const r = readProfileValue(value);
+  const parsed = parseJsonText(text);
+  if (!parsed.ok) throw new InputError(`${name}: ${parsed.error.message}`);
+  const r = readProfileValue(parsed.value);
   if (!r.ok) throw new InputError(`${name}: ${profileErrorText(r.error)}`);
   return r.profile;
 }

@@ -44,15 +44,22 @@ export type ReadResult = { ok: true; plan: Plan } | { ok: false; error: PlanErro
 
 /** Parses JSON text and reads it as a plan. Never throws. */
 export function readPlanText(text: string): ReadResult {
-  let value: unknown;
+  const parsed = parseJsonText(text);
+  return parsed.ok ? readPlanValue(parsed.value) : parsed;
+}
+
+/**
+ * JSON.parse for plan and profile files; never throws. Text that is not JSON only because of a
+ * bare NaN or Infinity is refused at that number's field path.
+ */
+export function parseJsonText(text: string): { ok: true; value: unknown } | { ok: false; error: PlanError } {
   try {
-    value = JSON.parse(text);
+    return { ok: true, value: JSON.parse(text) };
   } catch (e) {
     const bare = bareNonFiniteNumber(text);
     if (bare) return { ok: false, error: new PlanError(bare.path, `must be a finite number, not ${bare.token} (not valid JSON either)`) };
     return { ok: false, error: new PlanError('', `not valid JSON (${(e as Error).message})`) };
   }
-  return readPlanValue(value);
 }
 
 /**
