@@ -28,6 +28,11 @@ export function normalizeSection(b0: number, b1: number, b2: number, a0: number,
   return { b0: b0 / a0, b1: b1 / a0, b2: b2 / a0, a1: a1 / a0, a2: a2 / a0 };
 }
 
+/** The section with its numerator (b0 b1 b2) times `factor`: its response times `factor` at every frequency. */
+export function scaleNumerator<T extends Section>(s: T, factor: number): T {
+  return { ...s, b0: s.b0 * factor, b1: s.b1 * factor, b2: s.b2 * factor };
+}
+
 /** Packs sections as [b0, b1, b2, a1, a2] per section into one Float64Array for the response kernel. */
 export function packSections(sections: readonly Section[], into?: Float64Array): Float64Array {
   const out = into && into.length >= sections.length * SECTION_STRIDE ? into : new Float64Array(sections.length * SECTION_STRIDE);

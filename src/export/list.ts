@@ -21,7 +21,7 @@
  */
 import { poleRadius } from '../analysis/poles';
 import { designPlan, outputGain, type SourcedSection } from '../design/chain';
-import type { Section } from '../design/section';
+import { scaleNumerator, type Section } from '../design/section';
 import { readPlanValue } from '../plan/read';
 import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
@@ -155,7 +155,7 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
     let sections: SourcedSection[] = d.sections;
     const gain = outputGain(o);
     if (profile.gain === 'first-section') {
-      sections = sections.length === 0 ? [{ b0: gain, b1: 0, b2: 0, a1: 0, a2: 0, from: `${o.id}/gain` }] : sections.map((s, k) => (k === 0 ? foldGain(s, gain) : s));
+      sections = sections.length === 0 ? [{ b0: gain, b1: 0, b2: 0, a1: 0, a2: 0, from: `${o.id}/gain` }] : sections.map((s, k) => (k === 0 ? scaleNumerator(s, gain) : s));
     }
     if (sections.length > profile.sectionBudget) {
       const extra = sections.length - profile.sectionBudget;
@@ -202,10 +202,6 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
   const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none').map((o) => o.id);
   if (gainSat.length > 0) notes.push(`output gain saturated: ${gainSat.join(', ')}`);
   return { ok: true, list: { planName: plan.name, profile, sampleRate: fs, planSampleRate: plan.sampleRate, redesigned, notes, outputs } };
-}
-
-function foldGain(s: SourcedSection, gain: number): SourcedSection {
-  return { ...s, b0: s.b0 * gain, b1: s.b1 * gain, b2: s.b2 * gain };
 }
 
 /** Shortest round-trip decimal; -0 written as 0. */

@@ -24,7 +24,7 @@
 import { HEADROOM_WARN_DB } from '../analysis/check';
 import { headroom } from '../analysis/headroom';
 import { poleRadius } from '../analysis/poles';
-import type { Section } from '../design/section';
+import { scaleNumerator, type Section } from '../design/section';
 
 export interface PartialPeak {
   /** Sections 1..`through` (1-based). */
@@ -86,7 +86,7 @@ export function suggestOrderAndScaling(sections: readonly Section[], sampleRateH
     peaks.push({ ...p, peakDb: p.peakDb + 20 * Math.log10(s) });
     previous = s;
   }
-  const scaled = reordered.map((s, k) => ({ ...s, b0: s.b0 * scales[k], b1: s.b1 * scales[k], b2: s.b2 * scales[k] }));
+  const scaled = reordered.map((s, k) => scaleNumerator(s, scales[k]));
   const unchangedOrder = order.every((i, k) => i === k);
   const given = current ?? (unchangedOrder ? peaksUnscaled : partialCascadePeaks(sections, sampleRateHz));
   return {
