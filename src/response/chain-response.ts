@@ -81,7 +81,7 @@ export function cascadeWithGainDelay(
   const groupDelaySamples = new Float64Array(n);
   const msPerSample = 1000 / sampleRateHz;
   for (let i = 0; i < n; i++) {
-    k.magnitudeDb[i] += gain === 0 ? -Infinity : gainDb;
+    k.magnitudeDb[i] += gainDb; // -Infinity for a gain of 0
     filterPhase[i] = wrapPi(k.phaseRad[i] + flip);
     phaseRad[i] = wrapPi(filterPhase[i] - omega[i] * delaySamples);
     groupDelaySamples[i] = k.groupDelaySamples[i] + delaySamples;
