@@ -56,8 +56,13 @@ function hasHighPassBand(out: Output): boolean {
   return out.bands.some((b) => b.enabled && (b.type === 'highPass' || b.type === 'highPass1'));
 }
 
+/** Frequencies above this are flagged near Nyquist. */
+function nearNyquistLimit(plan: Plan): number {
+  return NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2);
+}
+
 function nearNyquist(plan: Plan, bands: Band[], where: string, warnings: Warning[]): void {
-  const limit = NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2);
+  const limit = nearNyquistLimit(plan);
   for (const b of bands) {
     if (b.enabled && b.type !== 'raw' && b.frequency > limit) {
       warnings.push({
@@ -110,7 +115,7 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
       });
     }
     for (const edge of [o.highPass, o.lowPass]) {
-      if (edge && edge.frequency > NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2)) {
+      if (edge && edge.frequency > nearNyquistLimit(plan)) {
         warnings.push({
           severity: 'warning',
           code: 'near-nyquist',
