@@ -13,7 +13,7 @@
  */
 import type { Band, BoardProfile, CoefficientName, Plan, RawCoefficients } from '../plan/types';
 import { LIMITS, PLAN_FORMAT, PLAN_VERSION } from '../plan/types';
-import { readBoardProfile, PlanError } from '../plan/read';
+import { parseJsonText, readBoardProfile, PlanError } from '../plan/read';
 import { fixedRange, fromFixed, fromHex, qName } from './fixed';
 import { writeFactor } from './list';
 import { effectiveOrder } from './profiles';
@@ -240,13 +240,9 @@ function parseCsv(text: string, profile: BoardProfile): ImportedList {
 // ---- JSON ----------------------------------------------------------------------------------------
 
 function parseJson(text: string): ImportedList {
-  let doc: unknown;
-  try {
-    doc = JSON.parse(text);
-  } catch (e) {
-    throw new ImportError('', `not valid JSON (${(e as Error).message})`);
-  }
-  const d = doc as Record<string, unknown>;
+  const parsed = parseJsonText(text);
+  if (!parsed.ok) throw parsed.error; // a PlanError: parseCoefficientList reports it with its path
+  const d = parsed.value as Record<string, unknown>;
   if (typeof d !== 'object' || d === null || d.format !== COEFFICIENTS_FORMAT) {
     throw new ImportError('format', `must be "${COEFFICIENTS_FORMAT}" (a Biquadrant coefficient export)`);
   }

@@ -146,6 +146,27 @@ describe('import of pasted lists', () => {
   });
 });
 
+describe('import of an edited JSON export', () => {
+  const float = BUILT_IN_PROFILES[0].profile;
+  const json = () => {
+    const r = buildExportList(demo('two-way-monitor.bqplan'), float);
+    if (!r.ok) throw new Error(r.problems[0].message);
+    return formatExport(r.list, 'json');
+  };
+  it('refuses a bare NaN at the field path of the coefficient that holds it', () => {
+    const text = json().replace(/("coefficients": \[\s*)[-0-9.e]+/, '$1NaN');
+    expect(text).toContain('NaN');
+    const r = parseCoefficientList(text, float);
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.error.message).toBe('outputs[0].sections[0].coefficients[0]: must be a finite number, not NaN (not valid JSON either)');
+  });
+  it('says when the text is not JSON at all', () => {
+    const r = parseCoefficientList(json().slice(0, -3), float, 'json');
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.error.message).toMatch(/^not valid JSON \(/);
+  });
+});
+
 describe('the C header compiles and holds the listed numbers (gcc)', () => {
   const dir = mkdtempSync(join(tmpdir(), 'bq-c-'));
   const plan = plans()[2];
