@@ -42,8 +42,11 @@ export function designInput(plan: Plan): SourcedSection[] {
 export function designOutputOwn(plan: Plan, output: Output): SourcedSection[] {
   const fs = plan.sampleRate;
   const sections: SourcedSection[] = [];
-  if (output.highPass) for (const s of designEdge(output.highPass, 'highPass', fs)) sections.push({ ...s, from: `${output.id}/highPass` });
-  if (output.lowPass) for (const s of designEdge(output.lowPass, 'lowPass', fs)) sections.push({ ...s, from: `${output.id}/lowPass` });
+  // Signal order: the high-pass edge, then the low-pass edge.
+  for (const kind of ['highPass', 'lowPass'] as const) {
+    const edge = output[kind];
+    if (edge) for (const s of designEdge(edge, kind, fs)) sections.push({ ...s, from: `${output.id}/${kind}` });
+  }
   sections.push(...designBands(output.bands, fs, output.id));
   return sections;
 }
