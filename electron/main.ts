@@ -430,7 +430,7 @@ function registerIpc(): void {
     if (!path) return { ok: false, cancelled: true };
     const showing = windowShowing(path);
     if (showing && showing !== state) {
-      showing.win.focus();
+      bringToFront(showing);
       return { ok: false, error: `"${documentLabel(showing)}" is already open in another window.` };
     }
     return loadFor(state, path);
