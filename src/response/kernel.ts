@@ -254,12 +254,20 @@ const KERNEL_ARRAYS = 9;
 const DB_PER_RESCALE = 3320 * Math.log10(2);
 
 let slotOf = new Int32Array(0);
+/** reduce(omega[i]) per point, kept from the counting pass for the filling pass. */
+let reduced = new Float64Array(0);
 
 function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
   const points = omega.length;
-  if (slotOf.length < points) slotOf = new Int32Array(points);
+  if (slotOf.length < points) {
+    slotOf = new Int32Array(points);
+    reduced = new Float64Array(points);
+  }
   let nearOne = 0;
-  for (let i = 0; i < points; i++) if (reduce(omega[i]) <= 2) nearOne++;
+  for (let i = 0; i < points; i++) {
+    reduced[i] = reduce(omega[i]);
+    if (reduced[i] <= 2) nearOne++;
+  }
   // Two groups of points, each padded to an even count: "+" (near z = 1) and "-" (near z = -1).
   const padPlus = nearOne + (nearOne & 1);
   const nearMinus = points - nearOne;
@@ -274,7 +282,7 @@ function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: 
   let iPlus = 0;
   let iMinus = 0;
   for (let i = 0; i < points; i++) {
-    const r = reduce(omega[i]);
+    const r = reduced[i];
     const mirrored = r > 2;
     const base = mirrored ? minusBase : plusBase;
     const pad = mirrored ? padMinus : padPlus;
