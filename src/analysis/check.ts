@@ -7,6 +7,7 @@ import { designInput, designOutput, type DesignedOutput } from '../design/chain'
 import type { Band, Output, Plan } from '../plan/types';
 import { headroom, type Headroom } from './headroom';
 import { largestPoleRadius } from './poles';
+import { MARGINAL_POLE_RADIUS, NEAR_NYQUIST_FRACTION, headroomSeverity } from './thresholds';
 import { formatFrequency } from '../ui/units';
 
 export type Severity = 'info' | 'warning' | 'danger';
@@ -20,12 +21,6 @@ export interface Warning {
   message: string;
 }
 
-/** A frequency above this fraction of Nyquist is flagged: the bilinear transform cramps it. */
-export const NEAR_NYQUIST_FRACTION = 0.9;
-/** A pole radius above this is flagged as marginal (common practice, no source: low-frequency sections at high rates sit near 0.999). */
-export const MARGINAL_POLE_RADIUS = 0.99999;
-/** Boost below this is rounding, not headroom loss (a Linkwitz-Riley high-pass peaks at +1e-10 dB). */
-export const HEADROOM_WARN_DB = 0.01;
 
 export interface OutputAnalysis {
   id: string;
@@ -106,9 +101,10 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
         message: `output ${o.id} has a pole at radius ${a.largestPoleRadius.toFixed(7)}: fixed-point coefficients may make it unstable`,
       });
     }
-    if (a.headroom.peakDb > HEADROOM_WARN_DB) {
+    const boost = headroomSeverity(a.headroom.peakDb);
+    if (boost) {
       warnings.push({
-        severity: a.headroom.peakDb > 6 ? 'danger' : 'warning',
+        severity: boost,
         code: 'headroom',
         where: o.id,
         message: `output ${o.id} boosts ${a.headroom.peakDb.toFixed(2)} dB at ${fmtHz(a.headroom.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,

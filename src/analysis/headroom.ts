@@ -7,11 +7,8 @@
  */
 import { packSections, type Section } from '../design/section';
 import { allocateKernelOutput, cascadeResponse } from '../response/kernel';
+import { HEADROOM_LOW_HZ, audioBandTopHz } from './thresholds';
 
-export const HEADROOM_LOW_HZ = 10;
-export const HEADROOM_HIGH_HZ = 20000;
-/** 0.45 fs keeps the band clear of the region where every bilinear design cramps. */
-export const HEADROOM_NYQUIST_FRACTION = 0.45;
 const GRID_POINTS = 1024;
 
 export interface Headroom {
@@ -22,7 +19,7 @@ export interface Headroom {
 }
 
 export function headroomBand(sampleRateHz: number): [number, number] {
-  return [HEADROOM_LOW_HZ, Math.min(HEADROOM_HIGH_HZ, HEADROOM_NYQUIST_FRACTION * sampleRateHz)];
+  return [HEADROOM_LOW_HZ, audioBandTopHz(sampleRateHz)];
 }
 
 /** The largest gain of `sections` times |gain| over the headroom band. */

@@ -4,6 +4,7 @@
  * adapter that runs it on process.argv.
  */
 import { analyzePlan } from '../analysis/check';
+import { HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION } from '../analysis/thresholds';
 import { designPlan, type DesignedOutput } from '../design/chain';
 import { readPlanText } from '../plan/read';
 import type { Plan } from '../plan/types';
@@ -131,7 +132,7 @@ export function responseFrequencies(args: ParsedArgs, sampleRate: number): Float
   if (!Number.isInteger(points) || points < 1 || points > 1_000_000) throw new UsageError('--points must be a whole number from 1 to 1000000');
   const from = optNumber(args, 'from') ?? 20;
   // "Clipped below Nyquist": the default top is 20 kHz or 99.9% of Nyquist, whichever is lower.
-  const to = optNumber(args, 'to') ?? Math.min(20000, 0.999 * nyquist);
+  const to = optNumber(args, 'to') ?? Math.min(HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION * nyquist);
   if (!(from > 0)) throw new UsageError('--from must be > 0 Hz');
   if (to > nyquist) throw new UsageError(`--to must be at most Nyquist (${nyquist} Hz)`);
   if (!(to >= from)) throw new UsageError('--to must not be below --from');

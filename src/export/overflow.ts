@@ -21,7 +21,7 @@
  *   up after the board's last stage if it has the headroom.
  * A separate output gain is taken to act after the cascade (the plan's signal order).
  */
-import { HEADROOM_WARN_DB } from '../analysis/check';
+import { HEADROOM_WARN_DB } from '../analysis/thresholds';
 import { headroom } from '../analysis/headroom';
 import { poleRadius } from '../analysis/poles';
 import { scaleNumerator, type Section } from '../design/section';

@@ -18,6 +18,7 @@ import {
   type Plan,
 } from '../plan/types';
 import { formatFrequency } from './units';
+import { AUDIO_BAND_TOP_FRACTION } from '../analysis/thresholds';
 
 export type EditResult = { ok: true; plan: Plan } | { ok: false; reason: string };
 
@@ -109,7 +110,7 @@ export function addBand(plan: Plan, chain: ChainRef, init?: Partial<Band>): Edit
   const bands = chainBands(plan, chain);
   if (bands.length >= LIMITS.bandsMax) return { ok: false, reason: `a chain holds at most ${LIMITS.bandsMax} bands` };
   const id = nextBandId(bands);
-  const frequency = Math.min(init?.frequency ?? 1000, plan.sampleRate * 0.45);
+  const frequency = Math.min(init?.frequency ?? 1000, plan.sampleRate * AUDIO_BAND_TOP_FRACTION);
   const band: Band = { id, type: 'peaking', frequency, gainDb: 0, q: 1, enabled: true, ...init };
   band.id = id;
   band.frequency = frequency;

@@ -3,6 +3,7 @@
  * commands through the host adapter. Components and keyboard shortcuts call these; each edit
  * goes through the plan reader (src/ui/edits) and the document's undo history.
  */
+import { DRAG_TOP_FRACTION } from '../../../src/analysis/thresholds';
 import { BAND_PARAMETERS, DEFAULT_Q } from '../../../src/design/cookbook';
 import type { Band, Plan } from '../../../src/plan/types';
 import type { PlanDocument } from '../../../src/ipc';
@@ -37,7 +38,7 @@ export function selectedBand(): Band | null {
 /** Rounded, and kept just inside Nyquist so the plan reader accepts it. */
 function clampFrequency(plan: Plan, f: number): number {
   const r = roundFrequency(Math.max(1, f));
-  return r < plan.sampleRate / 2 ? r : Math.floor(plan.sampleRate * 0.499);
+  return r < plan.sampleRate / 2 ? r : Math.floor(plan.sampleRate * DRAG_TOP_FRACTION);
 }
 
 /** Frequency, gain and Q of a band moved together (drag, wheel, nudge); fields a type lacks are left alone. */

@@ -1,0 +1,52 @@
+/**
+ * Every limit the warnings, the status bar, the default frequencies and the plot ranges use, in
+ * one place. A component or a command that needs one imports it from here; none keeps a copy.
+ *
+ * Fractions are of the sample rate fs (not of Nyquist) unless the name says otherwise.
+ */
+
+/** Boost below this is rounding, not headroom loss (a Linkwitz-Riley high-pass peaks at +1e-10 dB). */
+export const HEADROOM_WARN_DB = 0.01;
+/**
+ * Boost above this is a danger, not only a warning: a full-scale input then clips by more than
+ * 6 dB, twice the peak amplitude (common practice, no source).
+ */
+export const HEADROOM_DANGER_DB = 6;
+
+/** The headroom search runs from this frequency... */
+export const HEADROOM_LOW_HZ = 10;
+/** ...to this one, or to `AUDIO_BAND_TOP_FRACTION` of fs where that is lower. */
+export const HEADROOM_HIGH_HZ = 20000;
+/** 0.45 fs keeps the audio band clear of the region where every bilinear design cramps. */
+export const AUDIO_BAND_TOP_FRACTION = 0.45;
+
+/** A band or edge frequency above this fraction of Nyquist is flagged: the bilinear transform cramps it. */
+export const NEAR_NYQUIST_FRACTION = 0.9;
+
+/** A pole radius above this is flagged as marginal (common practice, no source: low-frequency sections at high rates sit near 0.999). */
+export const MARGINAL_POLE_RADIUS = 0.99999;
+/** Pole radii from here up are shown with seven decimals, below it four are enough to tell them apart. */
+export const POLE_RADIUS_FINE_DIGITS_FROM = 0.999;
+
+/**
+ * The quantized-response plot of the export view runs to 0.49 fs: close to Nyquist the
+ * quantized and exact responses part by design, not by error, and the view is about the audio band.
+ */
+export const QUANTIZED_PLOT_TOP_FRACTION = 0.49;
+/**
+ * A dragged or nudged band frequency at or past Nyquist is put back to 0.499 fs, just inside, so
+ * the plan reader (which refuses frequencies within 1e-6 fs of Nyquist) accepts it.
+ */
+export const DRAG_TOP_FRACTION = 0.499;
+/** The default top of `response` on the command line: 20 kHz or 99.9% of Nyquist, whichever is lower. */
+export const RESPONSE_TOP_NYQUIST_FRACTION = 0.999;
+
+/** The upper end of the headroom search band at `sampleRateHz`. */
+export function audioBandTopHz(sampleRateHz: number): number {
+  return Math.min(HEADROOM_HIGH_HZ, AUDIO_BAND_TOP_FRACTION * sampleRateHz);
+}
+
+/** Headroom of `peakDb` as a severity: none, a warning, or a danger. */
+export function headroomSeverity(peakDb: number): 'warning' | 'danger' | null {
+  return peakDb > HEADROOM_DANGER_DB ? 'danger' : peakDb > HEADROOM_WARN_DB ? 'warning' : null;
+}
