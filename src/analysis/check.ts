@@ -8,18 +8,11 @@ import type { Band, Output, Plan } from '../plan/types';
 import { headroom, type Headroom } from './headroom';
 import { largestPoleRadius } from './poles';
 import { MARGINAL_POLE_RADIUS, NEAR_NYQUIST_FRACTION, headroomSeverity } from './thresholds';
-import { formatFrequency } from '../ui/units';
+import { diagnostic, type Diagnostic } from '../diagnostics';
 
-export type Severity = 'info' | 'warning' | 'danger';
-
-export interface Warning {
-  severity: Severity;
-  /** Stable identifier of the kind of warning, for tests and the UI. */
-  code: 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability';
-  /** Where: "input", an output id, or a field path. */
-  where: string;
-  message: string;
-}
+/** The codes `check` emits; each surface words them (see src/diagnostics.ts). */
+export type CheckCode = 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability';
+export type Warning = Diagnostic<CheckCode>;
 
 
 export interface OutputAnalysis {
@@ -56,22 +49,16 @@ function nearNyquistLimit(plan: Plan): number {
   return NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2);
 }
 
-function nearNyquist(plan: Plan, bands: Band[], where: string, warnings: Warning[]): void {
+function nearNyquist(plan: Plan, bands: Band[], chain: string, warnings: Warning[]): void {
   const limit = nearNyquistLimit(plan);
   for (const b of bands) {
     if (b.enabled && b.type !== 'raw' && b.frequency > limit) {
-      warnings.push({
-        severity: 'warning',
-        code: 'near-nyquist',
-        where: `${where}/${b.id}`,
-        message: `band ${b.id} at ${fmtHz(b.frequency)} is within ${Math.round((1 - NEAR_NYQUIST_FRACTION) * 100)}% of Nyquist (${fmtHz(plan.sampleRate / 2)}): its shape is cramped by the bilinear transform`,
-      });
+      warnings.push(
+        diagnostic('near-nyquist', 'warning', { kind: 'band', chain, bandId: b.id }, { frequencyHz: b.frequency, nyquistHz: plan.sampleRate / 2, fraction: NEAR_NYQUIST_FRACTION }),
+      );
     }
   }
 }
-
-/** Frequencies in warnings read as in the app's fields ("63 Hz", "2.2 kHz"): `formatFrequency`. */
-export const fmtHz = formatFrequency;
 
 export function analyzeOutput(plan: Plan, d: DesignedOutput): OutputAnalysis {
   const r = largestPoleRadius(d.sections);
@@ -86,48 +73,27 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
   nearNyquist(plan, plan.input.bands, 'input', warnings);
   plan.outputs.forEach((o, i) => {
     const a = outputs[i];
+    const output = { kind: 'output', outputId: o.id } as const;
     if (!a.stable) {
-      warnings.push({
-        severity: 'danger',
-        code: 'unstable',
-        where: o.id,
-        message: `output ${o.id} is unstable: a pole lies at radius ${a.largestPoleRadius.toFixed(6)} (>= 1); check its raw bands`,
-      });
+      warnings.push(diagnostic('unstable', 'danger', output, { radius: a.largestPoleRadius }));
     } else if (a.largestPoleRadius > MARGINAL_POLE_RADIUS) {
-      warnings.push({
-        severity: 'warning',
-        code: 'marginal-stability',
-        where: o.id,
-        message: `output ${o.id} has a pole at radius ${a.largestPoleRadius.toFixed(7)}: fixed-point coefficients may make it unstable`,
-      });
+      warnings.push(diagnostic('marginal-stability', 'warning', output, { radius: a.largestPoleRadius }));
     }
     const boost = headroomSeverity(a.headroom.peakDb);
     if (boost) {
-      warnings.push({
-        severity: boost,
-        code: 'headroom',
-        where: o.id,
-        message: `output ${o.id} boosts ${a.headroom.peakDb.toFixed(2)} dB at ${fmtHz(a.headroom.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,
-      });
+      warnings.push(diagnostic('headroom', boost, output, { peakDb: a.headroom.peakDb, frequencyHz: a.headroom.frequencyHz }));
     }
-    for (const edge of [o.highPass, o.lowPass]) {
-      if (edge && edge.frequency > nearNyquistLimit(plan)) {
-        warnings.push({
-          severity: 'warning',
-          code: 'near-nyquist',
-          where: o.id,
-          message: `output ${o.id}: an edge at ${fmtHz(edge.frequency)} is close to Nyquist (${fmtHz(plan.sampleRate / 2)})`,
-        });
+    for (const edge of ['highPass', 'lowPass'] as const) {
+      const e = o[edge];
+      if (e && e.frequency > nearNyquistLimit(plan)) {
+        warnings.push(
+          diagnostic('near-nyquist', 'warning', { kind: 'edge', outputId: o.id, edge }, { frequencyHz: e.frequency, nyquistHz: plan.sampleRate / 2, fraction: NEAR_NYQUIST_FRACTION }),
+        );
       }
     }
     nearNyquist(plan, o.bands, o.id, warnings);
     if (!o.highPass && !hasHighPassBand(o) && looksHighFrequency(plan, o)) {
-      warnings.push({
-        severity: 'danger',
-        code: 'no-high-pass',
-        where: o.id,
-        message: `output ${o.id} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
-      });
+      warnings.push(diagnostic('no-high-pass', 'danger', output, {}));
     }
   });
   return { outputs, warnings };

@@ -4,6 +4,7 @@
  * adapter that runs it on process.argv.
  */
 import { analyzePlan } from '../analysis/check';
+import { diagnosticMessage, targetPath } from '../diagnostics';
 import { HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION } from '../analysis/thresholds';
 import { designPlan, type DesignedOutput } from '../design/chain';
 import { readPlanText } from '../plan/read';
@@ -224,7 +225,8 @@ function cmdCheck(argv: string[], io: CliIo): CliResult {
   const { plan, path } = loadPlan(args, io);
   const a = analyzePlan(plan);
   if (format === 'json') {
-    return { code: 0, stdout: JSON.stringify({ valid: true, outputs: a.outputs, warnings: a.warnings }, null, 2) + '\n', stderr: '' };
+    const warnings = a.warnings.map((w) => ({ severity: w.severity, code: w.code, where: targetPath(w.target), message: diagnosticMessage(w) }));
+    return { code: 0, stdout: JSON.stringify({ valid: true, outputs: a.outputs, warnings }, null, 2) + '\n', stderr: '' };
   }
   const lines = [`${path}: valid plan "${plan.name}", ${plan.outputs.length} output(s) at ${plan.sampleRate} Hz`];
   for (const o of a.outputs) {
@@ -233,7 +235,7 @@ function cmdCheck(argv: string[], io: CliIo): CliResult {
     );
   }
   if (a.warnings.length === 0) lines.push('no warnings');
-  for (const w of a.warnings) lines.push(`${w.severity}: ${w.message}`);
+  for (const w of a.warnings) lines.push(`${w.severity}: ${diagnosticMessage(w)}`);
   lines.push('Caution: high listening levels damage hearing and large boosts can destroy drivers; follow local regulations and qualified professionals.');
   return { code: 0, stdout: lines.join('\n') + '\n', stderr: '' };
 }

@@ -13,6 +13,7 @@
  */
 import type { Band, BoardProfile, CoefficientName, Plan, RawCoefficients } from '../plan/types';
 import { LIMITS, PLAN_FORMAT, PLAN_VERSION } from '../plan/types';
+import { diagnostic, DiagnosticError, targetPath, type DiagnosticTarget } from '../diagnostics';
 import { parseJsonText, readBoardProfile, PlanError } from '../plan/read';
 import { fixedRange, fromFixed, fromHex, qName } from './fixed';
 import { writeFactor } from './list';
@@ -41,16 +42,29 @@ export interface ImportedList {
   notes: string[];
 }
 
-export class ImportError extends Error {
+/**
+ * A coefficient list refused: where (a line, a row of an output, a field path of a JSON export,
+ * or the whole text) and why. Not a `PlanError`: the list is not a plan, and its places are lines
+ * and rows as well as field paths.
+ */
+export class ImportError extends DiagnosticError<'import-refused'> {
   constructor(
-    /** "line 12", "outputs[0].sections[3]" or "" */
-    readonly where: string,
+    readonly target: DiagnosticTarget,
     readonly reason: string,
   ) {
-    super(where ? `${where}: ${reason}` : reason);
+    super(diagnostic('import-refused', 'error', target, { reason }));
     this.name = 'ImportError';
   }
+
+  /** "line 12", "outputs[0].sections[3]" or "" (the command line's words). */
+  get where(): string {
+    return targetPath(this.target);
+  }
 }
+
+const WHOLE: DiagnosticTarget = { kind: 'plan' };
+const field = (path: string): DiagnosticTarget => ({ kind: 'field', path });
+const lineAt = (n: number, detail?: string): DiagnosticTarget => (detail === undefined ? { kind: 'line', line: n } : { kind: 'line', line: n, detail });
 
 export type ImportResult = { ok: true; list: ImportedList } | { ok: false; error: ImportError };
 
@@ -62,12 +76,12 @@ export function parseCoefficientList(text: string, profile: BoardProfile, format
     const f = format === 'auto' ? detectFormat(text) : format;
     const list = f === 'json' ? parseJson(text) : f === 'c' ? parseC(text, profile) : f === 'csv' ? parseCsv(text, profile) : parseText(text, profile);
     if (list.outputs.length === 0 || list.outputs.every((o) => o.sections.length === 0 && o.gain === null)) {
-      throw new ImportError('', 'no sections found');
+      throw new ImportError(WHOLE, 'no sections found');
     }
     return { ok: true, list };
   } catch (e) {
     if (e instanceof ImportError) return { ok: false, error: e };
-    if (e instanceof PlanError) return { ok: false, error: new ImportError(e.path, e.reason) };
+    if (e instanceof PlanError) return { ok: false, error: new ImportError(e.path ? field(e.path) : WHOLE, e.reason) };
     throw e;
   }
 }
@@ -85,7 +99,7 @@ export function detectFormat(text: string): Exclude<ImportFormat, 'auto'> {
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i;
 
 /** A written token to the value it stands for (integer / 2^n for fixed point), before undoing scale and sign. */
-export function readToken(token: string, profile: BoardProfile, where: string): number {
+export function readToken(token: string, profile: BoardProfile, where: DiagnosticTarget): number {
   const t = token.trim();
   const n = profile.number;
   if (n.kind === 'decimal') {
@@ -108,7 +122,7 @@ export function readToken(token: string, profile: BoardProfile, where: string): 
   return fromFixed(integer, n);
 }
 
-function toSection(values: number[], names: CoefficientName[], profile: BoardProfile, where: string, from?: string): ImportedSection {
+function toSection(values: number[], names: CoefficientName[], profile: BoardProfile, where: DiagnosticTarget, from?: string): ImportedSection {
   if (values.length !== names.length) {
     throw new ImportError(where, `expected ${names.length} numbers (${names.join(' ')}), found ${values.length}`);
   }
@@ -123,7 +137,7 @@ function toSection(values: number[], names: CoefficientName[], profile: BoardPro
   return s;
 }
 
-function readGain(token: string, profile: BoardProfile, where: string): number {
+function readGain(token: string, profile: BoardProfile, where: DiagnosticTarget): number {
   // The gain is written in the number format but never pre-scaled or negated.
   return readToken(token, profile, where);
 }
@@ -143,7 +157,7 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
   };
   let sampleRate = profile.sampleRate;
   text.split(/\r?\n/).forEach((raw, i) => {
-    const where = `line ${i + 1}`;
+    const where = lineAt(i + 1);
     // Our text export states its rate in a comment: "# Sample rate: 48000 Hz".
     const rate = /^\s*#\s*Sample rate:\s*(\d+(?:\.\d+)?)\s*Hz/i.exec(raw);
     if (rate) sampleRate = Number(rate[1]);
@@ -213,10 +227,11 @@ function parseCsv(text: string, profile: BoardProfile): ImportedList {
   const header = splitCsvLine(lines[0]).map((h) => h.trim());
   const col = (name: string) => header.indexOf(name);
   const names = effectiveOrder(profile);
-  for (const n of names) if (col(n) < 0) throw new ImportError('line 1', `the header has no "${n}" column (the profile's order is ${names.join(' ')})`);
+  for (const n of names) if (col(n) < 0) throw new ImportError(lineAt(1), `the header has no "${n}" column (the profile's order is ${names.join(' ')})`);
   const outputs = new Map<string, ImportedOutput>();
   lines.slice(1).forEach((line, i) => {
-    const where = `line ${i + 2}`;
+    const lineNo = i + 2;
+    const where = lineAt(lineNo);
     const cells = splitCsvLine(line);
     const id = cells[col('output')];
     if (!id) throw new ImportError(where, 'no output id');
@@ -231,7 +246,7 @@ function parseCsv(text: string, profile: BoardProfile): ImportedList {
       if (c >= 0 && cells[c]) out.delay = { value: Number(cells[c]), unit };
     }
     if (cells[col('section')] === '0') return;
-    const values = names.map((n) => readToken(cells[col(n)] ?? '', profile, `${where}, ${n}`));
+    const values = names.map((n) => readToken(cells[col(n)] ?? '', profile, lineAt(lineNo, n)));
     out.sections.push(toSection(values, names, profile, where, col('from') >= 0 ? cells[col('from')] : undefined));
   });
   return { profile, sampleRate: profile.sampleRate, outputs: [...outputs.values()], notes: [] };
@@ -244,27 +259,28 @@ function parseJson(text: string): ImportedList {
   if (!parsed.ok) throw parsed.error; // a PlanError: parseCoefficientList reports it with its path
   const d = parsed.value as Record<string, unknown>;
   if (typeof d !== 'object' || d === null || d.format !== COEFFICIENTS_FORMAT) {
-    throw new ImportError('format', `must be "${COEFFICIENTS_FORMAT}" (a Biquadrant coefficient export)`);
+    throw new ImportError(field('format'), `must be "${COEFFICIENTS_FORMAT}" (a Biquadrant coefficient export)`);
   }
   const profile = readBoardProfile(d.profile, 'profile');
   const names = effectiveOrder(profile);
-  if (!Array.isArray(d.outputs)) throw new ImportError('outputs', 'must be a list');
-  const tokenOf = (v: unknown, where: string): string => {
+  if (!Array.isArray(d.outputs)) throw new ImportError(field('outputs'), 'must be a list');
+  const tokenOf = (v: unknown, where: DiagnosticTarget): string => {
     if (typeof v === 'number' && Number.isFinite(v)) return String(v);
     if (typeof v === 'string') return v;
     throw new ImportError(where, 'must be a number or a hex string');
   };
   const outputs = d.outputs.map((o: Record<string, unknown>, i: number): ImportedOutput => {
     const path = `outputs[${i}]`;
-    if (typeof o?.id !== 'string') throw new ImportError(`${path}.id`, 'must be a string');
-    if (!Array.isArray(o.sections)) throw new ImportError(`${path}.sections`, 'must be a list');
+    if (typeof o?.id !== 'string') throw new ImportError(field(`${path}.id`), 'must be a string');
+    if (!Array.isArray(o.sections)) throw new ImportError(field(`${path}.sections`), 'must be a list');
     const sections = o.sections.map((s: Record<string, unknown>, k: number) => {
-      const where = `${path}.sections[${k}]`;
-      if (!Array.isArray(s?.coefficients)) throw new ImportError(`${where}.coefficients`, 'must be a list');
-      const values = s.coefficients.map((v: unknown, j: number) => readToken(tokenOf(v, `${where}.coefficients[${j}]`), profile, `${where}.coefficients[${j}]`));
+      const at = `${path}.sections[${k}]`;
+      const where = field(at);
+      if (!Array.isArray(s?.coefficients)) throw new ImportError(field(`${at}.coefficients`), 'must be a list');
+      const values = s.coefficients.map((v: unknown, j: number) => readToken(tokenOf(v, field(`${at}.coefficients[${j}]`)), profile, field(`${at}.coefficients[${j}]`)));
       return toSection(values, names, profile, where, typeof s.from === 'string' ? s.from : undefined);
     });
-    const gain = o.gain === null || o.gain === undefined ? null : readGain(tokenOf(o.gain, `${path}.gain`), profile, `${path}.gain`);
+    const gain = o.gain === null || o.gain === undefined ? null : readGain(tokenOf(o.gain, field(`${path}.gain`)), profile, field(`${path}.gain`));
     const delay = typeof o.delay === 'number' ? { value: o.delay, unit: profile.delayUnit } : null;
     return { id: o.id, gain, delay, sections };
   });
@@ -286,7 +302,7 @@ function cTokens(body: string): string[] {
 function parseC(text: string, profile: BoardProfile): ImportedList {
   const names = effectiveOrder(profile);
   const parts = text.split(/\/\*\s*output\s+(\S+)\s*\*\//);
-  if (parts.length < 3) throw new ImportError('', 'no "/* output ID */" blocks found (is this a Biquadrant C header?)');
+  if (parts.length < 3) throw new ImportError(WHOLE, 'no "/* output ID */" blocks found (is this a Biquadrant C header?)');
   const outputs: ImportedOutput[] = [];
   const rate = /#define\s+BQ_SAMPLE_RATE\s+(\d+(?:\.\d+)?)/.exec(parts[0]);
   for (let i = 1; i < parts.length; i += 2) {
@@ -294,7 +310,7 @@ function parseC(text: string, profile: BoardProfile): ImportedList {
     const chunk = parts[i + 1];
     const out: ImportedOutput = { id, gain: null, delay: null, sections: [] };
     const gain = /_gain\s*=\s*([^;]+);/.exec(chunk);
-    if (gain) out.gain = readGain(cTokens(gain[1])[0] ?? '', profile, `output ${id} gain`);
+    if (gain) out.gain = readGain(cTokens(gain[1])[0] ?? '', profile, { kind: 'row', outputId: id, row: 'gain' });
     const delay = /_DELAY_(SAMPLES|MS)\s+(\S+)/.exec(chunk);
     if (delay) out.delay = { value: Number(delay[2]), unit: delay[1] === 'MS' ? 'ms' : 'samples' };
     const sos = /_sos\s*\[[^\]]*\]\s*\[[^\]]*\]\s*=\s*\{([\s\S]*?)\};/.exec(chunk);
@@ -303,7 +319,7 @@ function parseC(text: string, profile: BoardProfile): ImportedList {
       let m: RegExpExecArray | null;
       let k = 0;
       while ((m = rowRe.exec(sos[1])) !== null) {
-        const where = `output ${id} row ${++k}`;
+        const where: DiagnosticTarget = { kind: 'row', outputId: id, row: ++k };
         const values = cTokens(m[1]).map((t) => readToken(t, profile, where));
         out.sections.push(toSection(values, names, profile, where, m[2]));
       }
@@ -337,11 +353,11 @@ function safeId(id: string, i: number): string {
  */
 export function importedPlan(list: ImportedList, name: string, fallbackSampleRate: number): Plan {
   const fs = list.sampleRate ?? fallbackSampleRate;
-  if (list.outputs.length > LIMITS.outputsMax) throw new ImportError('', `${list.outputs.length} outputs, more than a plan's ${LIMITS.outputsMax}`);
+  if (list.outputs.length > LIMITS.outputsMax) throw new ImportError(WHOLE, `${list.outputs.length} outputs, more than a plan's ${LIMITS.outputsMax}`);
   const outputs = list.outputs.map((o, i) => {
-    if (o.sections.length > LIMITS.bandsMax) throw new ImportError(o.id, `${o.sections.length} sections, more than an output's ${LIMITS.bandsMax} bands`);
+    if (o.sections.length > LIMITS.bandsMax) throw new ImportError({ kind: 'output', outputId: o.id }, `${o.sections.length} sections, more than an output's ${LIMITS.bandsMax} bands`);
     const g = o.gain ?? 1;
-    if (g === 0) throw new ImportError(`${o.id} gain`, 'a gain of 0 cannot be a plan gain in dB');
+    if (g === 0) throw new ImportError({ kind: 'output', outputId: o.id, detail: 'gain' }, 'a gain of 0 cannot be a plan gain in dB');
     const gainDb = 20 * Math.log10(Math.abs(g));
     const delayMs = o.delay === null ? 0 : o.delay.unit === 'ms' ? o.delay.value : (o.delay.value * 1000) / fs;
     return {

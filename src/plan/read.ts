@@ -7,6 +7,7 @@
  * Older versions are migrated (see `migrate.ts`); a version this build does not know is refused.
  */
 import { maxShelfSlope } from '../design/cookbook';
+import { diagnostic, DiagnosticError } from '../diagnostics';
 import { migrate } from './migrate';
 import {
   BAND_TYPES,
@@ -29,13 +30,14 @@ import {
   type RawCoefficients,
 } from './types';
 
-export class PlanError extends Error {
+/** A plan, profile or JSON file refused: the field path and why. */
+export class PlanError extends DiagnosticError<'plan-field'> {
   constructor(
     /** Field path, e.g. `outputs[1].bands[0].q`; empty for the whole document. */
     readonly path: string,
     readonly reason: string,
   ) {
-    super(path ? `${path}: ${reason}` : reason);
+    super(diagnostic('plan-field', 'error', path ? { kind: 'field', path } : { kind: 'plan' }, { reason }));
     this.name = 'PlanError';
   }
 }

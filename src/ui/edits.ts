@@ -17,10 +17,17 @@ import {
   type Output,
   type Plan,
 } from '../plan/types';
-import { formatFrequency } from './units';
+import { diagnostic, type Diagnostic, type DiagnosticTarget, type RateMisfit } from '../diagnostics';
 import { AUDIO_BAND_TOP_FRACTION } from '../analysis/thresholds';
 
-export type EditResult = { ok: true; plan: Plan } | { ok: false; reason: string };
+/** An edit applied (a new plan) or refused (why, and where; see src/diagnostics.ts). */
+export type EditResult = { ok: true; plan: Plan } | { ok: false; diagnostic: Diagnostic };
+
+function refused(reason: string, target: DiagnosticTarget = { kind: 'plan' }): { ok: false; diagnostic: Diagnostic } {
+  return { ok: false, diagnostic: diagnostic('edit-refused', 'error', target, { reason }) };
+}
+const noBand = (chain: ChainRef, bandId: string) => ({ ok: false as const, diagnostic: diagnostic('no-such-band', 'error', { kind: 'band', chain, bandId }, { bandId }) });
+const noOutput = (outputId: string) => ({ ok: false as const, diagnostic: diagnostic('no-such-output', 'error', { kind: 'plan' }, { outputId }) });
 
 /** "input" or an output id. */
 export type ChainRef = string;
@@ -30,7 +37,7 @@ export const INPUT: ChainRef = 'input';
 export function validated(plan: Plan): EditResult {
   const r = readPlanValue(plan);
   if (r.ok) return { ok: true, plan };
-  return { ok: false, reason: r.error.message };
+  return { ok: false, diagnostic: r.error.diagnostic };
 }
 
 export function freshPlan(): Plan {
@@ -60,7 +67,7 @@ function withChainBands(plan: Plan, chain: ChainRef, bands: Band[]): Plan {
 export function updateBand(plan: Plan, chain: ChainRef, bandId: string, patch: Partial<Band>): EditResult {
   const bands = chainBands(plan, chain);
   const i = bands.findIndex((b) => b.id === bandId);
-  if (i < 0) return { ok: false, reason: `no band ${bandId} in ${chain}` };
+  if (i < 0) return noBand(chain, bandId);
   const next: Band = { ...bands[i], ...patch };
   for (const k of Object.keys(next) as (keyof Band)[]) if (next[k] === undefined) delete next[k];
   return validated(withChainBands(plan, chain, bands.map((b, j) => (j === i ? next : b))));
@@ -69,9 +76,9 @@ export function updateBand(plan: Plan, chain: ChainRef, bandId: string, patch: P
 /** Sets a band's Q from a bandwidth in octaves at its own frequency (cookbook BW form). */
 export function setBandwidth(plan: Plan, chain: ChainRef, bandId: string, octaves: number): EditResult {
   const band = chainBands(plan, chain).find((b) => b.id === bandId);
-  if (!band) return { ok: false, reason: `no band ${bandId}` };
+  if (!band) return noBand(chain, bandId);
   const q = qFromBandwidthOctaves(octaves, band.frequency, plan.sampleRate);
-  if (!(q > 0) || !Number.isFinite(q)) return { ok: false, reason: 'that bandwidth gives no usable Q at this frequency' };
+  if (!(q > 0) || !Number.isFinite(q)) return refused('that bandwidth gives no usable Q at this frequency', { kind: 'band', chain, bandId });
   return updateBand(plan, chain, bandId, { q, slope: undefined });
 }
 
@@ -101,14 +108,14 @@ export function bandForType(prev: Band, type: BandType): Band {
 export function setBandType(plan: Plan, chain: ChainRef, bandId: string, type: BandType): EditResult {
   const bands = chainBands(plan, chain);
   const i = bands.findIndex((b) => b.id === bandId);
-  if (i < 0) return { ok: false, reason: `no band ${bandId}` };
+  if (i < 0) return noBand(chain, bandId);
   const next = bandForType(bands[i], type);
   return validated(withChainBands(plan, chain, bands.map((b, j) => (j === i ? next : b))));
 }
 
 export function addBand(plan: Plan, chain: ChainRef, init?: Partial<Band>): EditResult & { bandId?: string } {
   const bands = chainBands(plan, chain);
-  if (bands.length >= LIMITS.bandsMax) return { ok: false, reason: `a chain holds at most ${LIMITS.bandsMax} bands` };
+  if (bands.length >= LIMITS.bandsMax) return refused(`a chain holds at most ${LIMITS.bandsMax} bands`);
   const id = nextBandId(bands);
   const frequency = Math.min(init?.frequency ?? 1000, plan.sampleRate * AUDIO_BAND_TOP_FRACTION);
   const band: Band = { id, type: 'peaking', frequency, gainDb: 0, q: 1, enabled: true, ...init };
@@ -120,12 +127,12 @@ export function addBand(plan: Plan, chain: ChainRef, init?: Partial<Band>): Edit
 
 export function removeBand(plan: Plan, chain: ChainRef, bandId: string): EditResult {
   const bands = chainBands(plan, chain);
-  if (!bands.some((b) => b.id === bandId)) return { ok: false, reason: `no band ${bandId}` };
+  if (!bands.some((b) => b.id === bandId)) return noBand(chain, bandId);
   return validated(withChainBands(plan, chain, bands.filter((b) => b.id !== bandId)));
 }
 
 export function updateOutput(plan: Plan, outputId: string, patch: Partial<Omit<Output, 'id' | 'bands'>>): EditResult {
-  if (!plan.outputs.some((o) => o.id === outputId)) return { ok: false, reason: `no output ${outputId}` };
+  if (!plan.outputs.some((o) => o.id === outputId)) return noOutput(outputId);
   return validated({ ...plan, outputs: plan.outputs.map((o) => (o.id === outputId ? { ...o, ...patch } : o)) });
 }
 
@@ -138,7 +145,7 @@ export function freshOutputId(plan: Plan, name: string): string {
 }
 
 export function addOutput(plan: Plan): EditResult & { outputId?: string } {
-  if (plan.outputs.length >= LIMITS.outputsMax) return { ok: false, reason: `a plan holds at most ${LIMITS.outputsMax} outputs` };
+  if (plan.outputs.length >= LIMITS.outputsMax) return refused(`a plan holds at most ${LIMITS.outputsMax} outputs`);
   const name = `Output ${plan.outputs.length + 1}`;
   const id = freshOutputId(plan, name);
   const out: Output = { id, name, gainDb: 0, delayMs: 0, invert: false, mute: false, highPass: null, lowPass: null, bands: [] };
@@ -147,9 +154,9 @@ export function addOutput(plan: Plan): EditResult & { outputId?: string } {
 }
 
 export function duplicateOutput(plan: Plan, outputId: string): EditResult & { outputId?: string } {
-  if (plan.outputs.length >= LIMITS.outputsMax) return { ok: false, reason: `a plan holds at most ${LIMITS.outputsMax} outputs` };
+  if (plan.outputs.length >= LIMITS.outputsMax) return refused(`a plan holds at most ${LIMITS.outputsMax} outputs`);
   const i = plan.outputs.findIndex((o) => o.id === outputId);
-  if (i < 0) return { ok: false, reason: `no output ${outputId}` };
+  if (i < 0) return noOutput(outputId);
   const src = plan.outputs[i];
   const name = `${src.name} copy`.slice(0, LIMITS.nameMaxLength);
   const id = freshOutputId(plan, `${src.id}-copy`);
@@ -160,8 +167,8 @@ export function duplicateOutput(plan: Plan, outputId: string): EditResult & { ou
 }
 
 export function removeOutput(plan: Plan, outputId: string): EditResult {
-  if (plan.outputs.length <= LIMITS.outputsMin) return { ok: false, reason: 'a plan keeps at least one output' };
-  if (!plan.outputs.some((o) => o.id === outputId)) return { ok: false, reason: `no output ${outputId}` };
+  if (plan.outputs.length <= LIMITS.outputsMin) return refused('a plan keeps at least one output');
+  if (!plan.outputs.some((o) => o.id === outputId)) return noOutput(outputId);
   return validated({ ...plan, outputs: plan.outputs.filter((o) => o.id !== outputId) });
 }
 
@@ -169,7 +176,7 @@ export function removeOutput(plan: Plan, outputId: string): EditResult {
 export function moveOutput(plan: Plan, outputId: string, by: -1 | 1): EditResult {
   const i = plan.outputs.findIndex((o) => o.id === outputId);
   const j = i + by;
-  if (i < 0 || j < 0 || j >= plan.outputs.length) return { ok: false, reason: 'cannot move further' };
+  if (i < 0 || j < 0 || j >= plan.outputs.length) return refused('cannot move further');
   const outputs = [...plan.outputs];
   [outputs[i], outputs[j]] = [outputs[j], outputs[i]];
   return validated({ ...plan, outputs });
@@ -214,9 +221,9 @@ export function neighbourAcross(plan: Plan, outputId: string, kind: EdgeKind): O
 export function matchNeighbourEdge(plan: Plan, outputId: string, kind: EdgeKind): EditResult & { neighbourId?: string } {
   const me = plan.outputs.find((o) => o.id === outputId);
   const edge = me && (kind === 'lowPass' ? me.lowPass : me.highPass);
-  if (!me || !edge) return { ok: false, reason: 'set this edge first' };
+  if (!me || !edge) return refused('set this edge first');
   const n = neighbourAcross(plan, outputId, kind);
-  if (!n) return { ok: false, reason: `no output ${kind === 'lowPass' ? 'after' : 'before'} this one to take the other side` };
+  if (!n) return refused(`no output ${kind === 'lowPass' ? 'after' : 'before'} this one to take the other side`);
   const r = setEdge(plan, n.id, kind === 'lowPass' ? 'highPass' : 'lowPass', { ...edge });
   return r.ok ? { ...r, neighbourId: n.id } : r;
 }
@@ -227,25 +234,23 @@ export function matchNeighbourEdge(plan: Plan, outputId: string, kind: EdgeKind)
  */
 export function setSampleRate(plan: Plan, sampleRateHz: number): EditResult {
   if (!(sampleRateHz >= LIMITS.sampleRateMinHz && sampleRateHz <= LIMITS.sampleRateMaxHz)) {
-    return { ok: false, reason: `sample rate must be ${LIMITS.sampleRateMinHz} to ${LIMITS.sampleRateMaxHz} Hz` };
+    return { ok: false, diagnostic: diagnostic('rate-range', 'error', { kind: 'plan' }, { minHz: LIMITS.sampleRateMinHz, maxHz: LIMITS.sampleRateMaxHz }) };
   }
   const nyq = sampleRateHz / 2;
-  const misfits: string[] = [];
-  const checkBands = (bands: Band[], where: string) => {
-    for (const b of bands) if (b.type !== 'raw' && !(b.frequency < nyq)) misfits.push(`${where} band ${b.id} at ${formatFrequency(b.frequency)}`);
+  const misfits: RateMisfit[] = [];
+  const checkBands = (bands: Band[], chain: ChainRef) => {
+    for (const b of bands) if (b.type !== 'raw' && !(b.frequency < nyq)) misfits.push({ target: { kind: 'band', chain, bandId: b.id }, frequencyHz: b.frequency });
   };
-  checkBands(plan.input.bands, 'input chain');
+  checkBands(plan.input.bands, INPUT);
   for (const o of plan.outputs) {
-    if (o.highPass && !(o.highPass.frequency < nyq)) misfits.push(`${o.name} high-pass at ${formatFrequency(o.highPass.frequency)}`);
-    if (o.lowPass && !(o.lowPass.frequency < nyq)) misfits.push(`${o.name} low-pass at ${formatFrequency(o.lowPass.frequency)}`);
-    checkBands(o.bands, o.name);
+    for (const edge of ['highPass', 'lowPass'] as const) {
+      const e = o[edge];
+      if (e && !(e.frequency < nyq)) misfits.push({ target: { kind: 'edge', outputId: o.id, edge }, frequencyHz: e.frequency });
+    }
+    checkBands(o.bands, o.id);
   }
   if (misfits.length > 0) {
-    const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';
-    return {
-      ok: false,
-      reason: `${formatFrequency(sampleRateHz)} refused: Nyquist would be ${formatFrequency(nyq)}, below ${misfits.slice(0, 3).join(', ')}${more}. Lower those first.`,
-    };
+    return { ok: false, diagnostic: diagnostic('rate-misfit', 'error', { kind: 'plan' }, { sampleRateHz, nyquistHz: nyq, misfits }) };
   }
   return validated({ ...plan, sampleRate: sampleRateHz });
 }

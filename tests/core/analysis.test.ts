@@ -5,6 +5,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyzePlan } from '../../src/analysis/check';
+import { targetPath } from '../../src/diagnostics';
 import { headroom, headroomBand } from '../../src/analysis/headroom';
 import { isStable, largestPoleRadius, sectionPoles, sectionZeros, type Root } from '../../src/analysis/poles';
 import { designBand } from '../../src/design/cookbook';
@@ -141,7 +142,7 @@ describe('warnings of check', () => {
     if (!r.ok) throw new Error(r.error.message);
     return r.plan;
   };
-  const codes = (p: Plan) => analyzePlan(p).warnings.map((w) => `${w.severity}:${w.code}:${w.where}`);
+  const codes = (p: Plan) => analyzePlan(p).warnings.map((w) => `${w.severity}:${w.code}:${targetPath(w.target)}`);
   it('a clean LR4 two-way has none', () => {
     const lr = { family: 'linkwitz-riley', order: 4, frequency: 2000 };
     expect(codes(plan([{ id: 'woofer', lowPass: lr }, { id: 'tweeter', highPass: lr }]))).toEqual([]);

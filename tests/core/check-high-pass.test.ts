@@ -7,6 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyzePlan } from '../../src/analysis/check';
+import { targetPath } from '../../src/diagnostics';
 import { readPlanValue } from '../../src/plan/read';
 
 function warnedNoHighPass(tweeterBands: unknown[], inputBands: unknown[] = []): boolean {
@@ -22,7 +23,7 @@ function warnedNoHighPass(tweeterBands: unknown[], inputBands: unknown[] = []): 
     ],
   });
   if (!r.ok) throw new Error(r.error.message);
-  return analyzePlan(r.plan).warnings.some((w) => w.code === 'no-high-pass' && w.where === 'tweeter');
+  return analyzePlan(r.plan).warnings.some((w) => w.code === 'no-high-pass' && targetPath(w.target) === 'tweeter');
 }
 
 describe('no-high-pass warning', () => {

@@ -5,6 +5,7 @@
 import { flushSync, mount, unmount } from 'svelte';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import demoText from '../../assets/two-way-monitor.bqplan?raw';
+import { diagnostic } from '../../src/diagnostics';
 import { qFromBandwidthOctaves } from '../../src/design/cookbook';
 import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
@@ -269,9 +270,10 @@ describe('document history', () => {
     expect(doc.plan).toBe(p0);
   });
 
-  it('a refused edit changes nothing and returns the reason', () => {
+  it('a refused edit changes nothing and returns the refusal', () => {
     const p0 = doc.plan;
-    expect(doc.apply({ ok: false, reason: 'no' })).toBe('no');
+    const refusal = diagnostic('edit-refused', 'error', { kind: 'plan' }, { reason: 'no' });
+    expect(doc.apply({ ok: false, diagnostic: refusal })).toBe(refusal);
     expect(doc.plan).toBe(p0);
     expect(doc.canUndo).toBe(false);
   });

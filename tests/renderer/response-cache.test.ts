@@ -6,6 +6,7 @@ import { designedResponse, logFrequencies } from '../../src/response/chain-respo
 import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
 import * as edits from '../../src/ui/edits';
+import { diagnosticMessage } from '../../src/diagnostics';
 import { ResponseCache } from '../../renderer/src/lib/response-cache';
 import hallText from '../../assets/three-way-hall.bqplan?raw';
 
@@ -16,7 +17,7 @@ function hall(): Plan {
 }
 
 function ok(r: edits.EditResult): Plan {
-  if (!r.ok) throw new Error(r.reason);
+  if (!r.ok) throw new Error(diagnosticMessage(r.diagnostic));
   return r.plan;
 }
 

@@ -6,6 +6,7 @@ import { qFromBandwidthOctaves } from '../../src/design/cookbook';
 import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
 import * as edits from '../../src/ui/edits';
+import { diagnosticMessage } from '../../src/diagnostics';
 
 function demo(): Plan {
   const r = readPlanText(readFileSync(new URL('../../assets/two-way-monitor.bqplan', import.meta.url), 'utf8'));
@@ -14,7 +15,7 @@ function demo(): Plan {
 }
 
 function ok(r: edits.EditResult): Plan {
-  if (!r.ok) throw new Error(r.reason);
+  if (!r.ok) throw new Error(diagnosticMessage(r.diagnostic));
   return r.plan;
 }
 
@@ -43,7 +44,7 @@ describe('refusals carry the reader message and leave the plan alone', () => {
     const p = demo();
     const r = edits.updateBand(p, edits.INPUT, 'b1', { frequency: 24000 });
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.reason).toMatch(/^input\.bands\[0\]\.frequency: must be below Nyquist/);
+    if (!r.ok) expect(diagnosticMessage(r.diagnostic)).toMatch(/^input\.bands\[0\]\.frequency: must be below Nyquist/);
   });
 
   it('a shelf slope past the cookbook limit is refused (reader check)', () => {
@@ -51,7 +52,8 @@ describe('refusals carry the reader message and leave the plan alone', () => {
     const id = p.outputs[0].bands[0].id;
     const r = edits.updateBand(p, 'woofer', id, { slope: 6 }); // limit for +12 dB: S <= 5.03 (cookbook: (A + 1/A)(1/S - 1) + 2 >= 0)
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.reason).toMatch(/slope: must be at most/);
+    if (!r.ok) expect(r.diagnostic.target).toEqual({ kind: 'field', path: 'outputs[0].bands[0].slope' });
+    if (!r.ok) expect(diagnosticMessage(r.diagnostic)).toMatch(/slope: must be at most/);
   });
 
   it('Linkwitz-Riley edges take even orders only; setEdge moves an odd order to the nearest even one', () => {
@@ -78,8 +80,9 @@ describe('sample rate', () => {
     const r = edits.setSampleRate(p, 32000);
     expect(r.ok).toBe(false);
     if (!r.ok) {
-      expect(r.reason).toContain('Nyquist would be 16 kHz');
-      expect(r.reason).toContain('Tweeter band b1 at 20 kHz');
+      expect(r.diagnostic.code).toBe('rate-misfit');
+      expect(diagnosticMessage(r.diagnostic)).toContain('Nyquist would be 16 kHz');
+      if (r.diagnostic.code === 'rate-misfit') expect(r.diagnostic.values.misfits).toContainEqual({ target: { kind: 'band', chain: 'tweeter', bandId: 'b1' }, frequencyHz: 20000 });
     }
     expect(ok(edits.setSampleRate(p, 96000)).sampleRate).toBe(96000);
     expect(edits.setSampleRate(p, 1000).ok).toBe(false);

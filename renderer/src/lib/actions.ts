@@ -12,14 +12,15 @@ import { INPUT, type ChainRef } from '../../../src/ui/edits';
 import { roundFrequency, roundGain, roundQ } from '../../../src/ui/units';
 import type { Host } from '../host/host';
 import { BAND_TYPE_LABEL } from './labels';
+import { diagnosticText } from './diagnostics';
 import { documentState as doc } from '../state/document.svelte';
 import { viewState as view } from '../state/view.svelte';
 
 /** Applies an edit result; a refusal becomes the notice. Returns true when applied. */
 export function commit(result: edits.EditResult, coalesce?: string): boolean {
-  const reason = doc.apply(result, { coalesce });
-  if (reason !== null) {
-    view.notify('error', reason);
+  const refused = doc.apply(result, { coalesce });
+  if (refused !== null) {
+    view.notify('error', diagnosticText(doc.plan, refused));
     return false;
   }
   return true;

@@ -4,6 +4,7 @@
  * shares what it did not touch, so the history is a list of references and "dirty" is an
  * identity check against the last saved plan.
  */
+import type { Diagnostic } from '../../../src/diagnostics';
 import type { Plan } from '../../../src/plan/types';
 import type { EditResult } from '../../../src/ui/edits';
 import { freshPlan } from '../../../src/ui/edits';
@@ -85,11 +86,11 @@ export class DocumentState {
   }
 
   /**
-   * Applies a checked edit. Returns the refusal reason, or null when applied. Inside a gesture
+   * Applies a checked edit. Returns the refusal (for the caller to word), or null when applied. Inside a gesture
    * the plan changes but the history waits for `endGesture`.
    */
-  apply(result: EditResult, opts: { coalesce?: string } = {}): string | null {
-    if (!result.ok) return result.reason;
+  apply(result: EditResult, opts: { coalesce?: string } = {}): Diagnostic | null {
+    if (!result.ok) return result.diagnostic;
     if (result.plan === this.#plan) return null;
     if (this.#gestureStart === null) {
       const now = Date.now();

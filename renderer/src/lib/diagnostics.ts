@@ -1,0 +1,119 @@
+/**
+ * The app's words for the core's diagnostics (src/diagnostics.ts): outputs by their names, bands
+ * by their number in the chain's list, fields by their own name, the way the editors show them.
+ * The command line words the same diagnostics with ids and field paths; nothing here reads a
+ * sentence back.
+ */
+import type { Diagnostic, DiagnosticCode, DiagnosticTarget, RateMisfit } from '../../../src/diagnostics';
+import type { Plan } from '../../../src/plan/types';
+import { formatFrequency as fmtHz } from '../../../src/ui/units';
+
+function outputName(plan: Plan, id: string): string {
+  return plan.outputs.find((o) => o.id === id)?.name ?? id;
+}
+
+/** "Input chain, band 3", "Tweeter, band 1"; the id when the band is gone. */
+function bandName(plan: Plan, chain: string, bandId: string, joiner = ', '): string {
+  const bands = chain === 'input' ? plan.input.bands : (plan.outputs.find((o) => o.id === chain)?.bands ?? []);
+  const chainName = chain === 'input' ? 'Input chain' : outputName(plan, chain);
+  const i = bands.findIndex((b) => b.id === bandId);
+  return `${chainName}${joiner}band ${i >= 0 ? i + 1 : bandId}`;
+}
+
+const EDGE_NAME = { highPass: 'high-pass edge', lowPass: 'low-pass edge' } as const;
+
+/** A field path as the field's own name: `outputs[0].bands[11].coefficients.a0` -> `a0`. */
+export function fieldName(path: string): string {
+  return path.replace(/\[\d+\]$/, '').split('.').pop() || path;
+}
+
+/** Where, as the user sees it. */
+export function targetText(plan: Plan, t: DiagnosticTarget): string {
+  switch (t.kind) {
+    case 'plan':
+      return '';
+    case 'output':
+      return t.detail ? `${outputName(plan, t.outputId)} ${t.detail}` : outputName(plan, t.outputId);
+    case 'edge':
+      return `${outputName(plan, t.outputId)} ${EDGE_NAME[t.edge]}`;
+    case 'band':
+      return bandName(plan, t.chain, t.bandId);
+    case 'field':
+      return fieldName(t.path);
+    case 'line':
+      return t.detail ? `Line ${t.line}, ${t.detail}` : `Line ${t.line}`;
+    case 'row':
+      return t.row === 'gain' ? `Output ${t.outputId}, gain` : `Output ${t.outputId}, row ${t.row}`;
+  }
+}
+
+/** "input chain band 3 at 21 kHz", "Tweeter band 2 at 20 kHz", "Tweeter high-pass at 30 kHz". */
+function misfitText(plan: Plan, m: RateMisfit): string {
+  const t = m.target;
+  const what = t.kind === 'edge' ? `${outputName(plan, t.outputId)} ${t.edge === 'highPass' ? 'high-pass' : 'low-pass'}` : bandName(plan, t.chain, t.bandId, ' ').replace(/^Input chain/, 'input chain');
+  return `${what} at ${fmtHz(m.frequencyHz)}`;
+}
+
+function withPlace(plan: Plan, t: DiagnosticTarget, reason: string): string {
+  const where = targetText(plan, t);
+  return where ? `${where}: ${reason}` : reason;
+}
+
+const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } = {
+  unstable: (plan, d) => `${targetText(plan, d.target)} is unstable: a pole lies at radius ${d.values.radius.toFixed(6)} (>= 1); check its raw bands`,
+  'marginal-stability': (plan, d) => `${targetText(plan, d.target)} has a pole at radius ${d.values.radius.toFixed(7)}: fixed-point coefficients may make it unstable`,
+  headroom: (plan, d) =>
+    `${targetText(plan, d.target)} boosts ${d.values.peakDb.toFixed(2)} dB at ${fmtHz(d.values.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,
+  'near-nyquist': (plan, d) =>
+    d.target.kind === 'band'
+      ? `${targetText(plan, d.target)} at ${fmtHz(d.values.frequencyHz)} is within ${Math.round((1 - d.values.fraction) * 100)}% of Nyquist (${fmtHz(d.values.nyquistHz)}): its shape is cramped by the bilinear transform`
+      : `${targetText(plan, d.target)} at ${fmtHz(d.values.frequencyHz)} is close to Nyquist (${fmtHz(d.values.nyquistHz)})`,
+  'no-high-pass': (plan, d) => `${targetText(plan, d.target)} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
+  'plan-field': (plan, d) => withPlace(plan, d.target, d.values.reason),
+  'import-refused': (plan, d) => withPlace(plan, d.target, d.values.reason),
+  'edit-refused': (_plan, d) => d.values.reason,
+  'no-such-band': () => 'that band no longer exists',
+  'no-such-output': () => 'that output no longer exists',
+  'rate-range': (_plan, d) => `the sample rate must be ${fmtHz(d.values.minHz)} to ${fmtHz(d.values.maxHz)}`,
+  'rate-misfit': (plan, d) => {
+    const { misfits } = d.values;
+    const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';
+    const named = misfits.slice(0, 3).map((m) => misfitText(plan, m));
+    return `${fmtHz(d.values.sampleRateHz)} refused: Nyquist would be ${fmtHz(d.values.nyquistHz)}, below ${named.join(', ')}${more}. Lower those first.`;
+  },
+};
+
+/** A diagnostic in the app's words, as a sentence (first letter capital). */
+export function diagnosticText(plan: Plan, d: Diagnostic): string {
+  const text = (TEXT[d.code] as (plan: Plan, d: Diagnostic) => string)(plan, d);
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** A refusal shown beside the field it is about: the field's name and the reason ("a0: must not be 0"). */
+export function fieldText(plan: Plan, d: Diagnostic): string {
+  return (TEXT[d.code] as (plan: Plan, d: Diagnostic) => string)(plan, d);
+}
+
+/** The output or band a diagnostic points at, to select it: [chain, band or null], or null. */
+export function diagnosticSelection(d: Diagnostic): [string, string | null] | null {
+  const t = d.target;
+  if (t.kind === 'band') return [t.chain, t.bandId];
+  if (t.kind === 'output' || t.kind === 'edge') return [t.outputId, null];
+  return null;
+}
+
+/** Where a designed section came from ("sub/highPass", "input/b1") as the user knows it. */
+export function sectionSource(plan: Plan, from: string): string {
+  const [chainId, part] = from.split('/');
+  if (part === undefined) return from;
+  if (chainId === 'input') {
+    const i = plan.input.bands.findIndex((b) => b.id === part);
+    return i >= 0 ? `input band ${i + 1}` : from;
+  }
+  const output = plan.outputs.find((o) => o.id === chainId);
+  if (!output) return from;
+  if (part === 'highPass') return 'high-pass edge';
+  if (part === 'lowPass') return 'low-pass edge';
+  const i = output.bands.findIndex((b) => b.id === part);
+  return i >= 0 ? `band ${i + 1}` : from;
+}

@@ -1,0 +1,145 @@
+/**
+ * One shape for everything the core has to tell a user: a warning of `check`, a refused field of
+ * a plan, a refused line of an imported list, a refused edit, a note of an export.
+ *
+ * The core never passes a finished English sentence to another layer. It passes a `Diagnostic`:
+ * what happened (`code`), how bad it is (`severity`), where (`target`: an output, a band, an
+ * edge, a field path or a line) and the numbers involved (`values`). Each surface renders it in
+ * its own words: the command line with ids and field paths (`diagnosticMessage`, below, whose
+ * text the CLI's tests fix), the app with output names and band numbers
+ * (`renderer/src/lib/diagnostics.ts`).
+ *
+ * A new kind of diagnostic adds its code and values to `DiagnosticValues`; both renderers are
+ * `Record`s over the codes, so the compiler names every place that must learn the new code.
+ */
+import type { EdgeKind } from './plan/types';
+import { formatFrequency } from './ui/units';
+
+export type Severity = 'info' | 'warning' | 'danger' | 'error';
+
+/** "input" or an output id. */
+export type ChainId = string;
+
+export type DiagnosticTarget =
+  /** The whole document or plan. */
+  | { kind: 'plan' }
+  /** An output; `detail` names a part of it ("gain"). */
+  | { kind: 'output'; outputId: string; detail?: string }
+  | { kind: 'edge'; outputId: string; edge: EdgeKind }
+  | { kind: 'band'; chain: ChainId; bandId: string }
+  /** A field of a plan, profile or JSON file by its path in the file: `outputs[1].bands[0].q`. */
+  | { kind: 'field'; path: string }
+  /** A line (1-based) of an imported text, with the column or coefficient when known. */
+  | { kind: 'line'; line: number; detail?: string }
+  /** A row of an output's block (or its gain line) in an imported C header. */
+  | { kind: 'row'; outputId: string; row: number | 'gain' };
+
+/** A frequency that keeps a new sample rate from being taken, and what it belongs to. */
+export interface RateMisfit {
+  target: Extract<DiagnosticTarget, { kind: 'band' } | { kind: 'edge' }>;
+  frequencyHz: number;
+}
+
+/** The values each code carries. */
+export interface DiagnosticValues {
+  // the warnings of `check` (src/analysis/check.ts)
+  unstable: { radius: number };
+  'marginal-stability': { radius: number };
+  headroom: { peakDb: number; frequencyHz: number };
+  'near-nyquist': { frequencyHz: number; nyquistHz: number; fraction: number };
+  'no-high-pass': Record<string, never>;
+  // refusals of the plan reader (src/plan/read.ts) and of the coefficient import (src/export/import.ts)
+  'plan-field': { reason: string };
+  'import-refused': { reason: string };
+  // refusals of an edit (src/ui/edits.ts)
+  'edit-refused': { reason: string };
+  'no-such-band': { bandId: string };
+  'no-such-output': { outputId: string };
+  'rate-range': { minHz: number; maxHz: number };
+  'rate-misfit': { sampleRateHz: number; nyquistHz: number; misfits: RateMisfit[] };
+}
+
+export type DiagnosticCode = keyof DiagnosticValues;
+
+export type Diagnostic<C extends DiagnosticCode = DiagnosticCode> = {
+  [K in C]: { code: K; severity: Severity; target: DiagnosticTarget; values: DiagnosticValues[K] };
+}[C];
+
+export function diagnostic<C extends DiagnosticCode>(code: C, severity: Severity, target: DiagnosticTarget, values: DiagnosticValues[C]): Diagnostic<C> {
+  return { code, severity, target, values } as Diagnostic<C>;
+}
+
+/**
+ * The target as ids and paths, as the command line and the `check --format json` output write
+ * it: "input/b3", "woofer", "outputs[0].q", "line 12"; "" for the whole plan.
+ */
+export function targetPath(t: DiagnosticTarget): string {
+  switch (t.kind) {
+    case 'plan':
+      return '';
+    case 'output':
+      return t.detail ? `${t.outputId} ${t.detail}` : t.outputId;
+    case 'edge':
+      return t.outputId;
+    case 'band':
+      return `${t.chain}/${t.bandId}`;
+    case 'field':
+      return t.path;
+    case 'line':
+      return t.detail ? `line ${t.line}, ${t.detail}` : `line ${t.line}`;
+    case 'row':
+      return t.row === 'gain' ? `output ${t.outputId} gain` : `output ${t.outputId} row ${t.row}`;
+  }
+}
+
+const fmtHz = formatFrequency;
+
+/** The command line's words for each code: ids and field paths. */
+const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
+  unstable: (d) => `output ${targetPath(d.target)} is unstable: a pole lies at radius ${d.values.radius.toFixed(6)} (>= 1); check its raw bands`,
+  'marginal-stability': (d) => `output ${targetPath(d.target)} has a pole at radius ${d.values.radius.toFixed(7)}: fixed-point coefficients may make it unstable`,
+  headroom: (d) =>
+    `output ${targetPath(d.target)} boosts ${d.values.peakDb.toFixed(2)} dB at ${fmtHz(d.values.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,
+  'near-nyquist': (d) =>
+    d.target.kind === 'band'
+      ? `band ${d.target.bandId} at ${fmtHz(d.values.frequencyHz)} is within ${Math.round((1 - d.values.fraction) * 100)}% of Nyquist (${fmtHz(d.values.nyquistHz)}): its shape is cramped by the bilinear transform`
+      : `output ${targetPath(d.target)}: an edge at ${fmtHz(d.values.frequencyHz)} is close to Nyquist (${fmtHz(d.values.nyquistHz)})`,
+  'no-high-pass': (d) =>
+    `output ${targetPath(d.target)} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
+  'plan-field': (d) => prefixed(d.target, d.values.reason),
+  'import-refused': (d) => prefixed(d.target, d.values.reason),
+  'edit-refused': (d) => d.values.reason,
+  'no-such-band': (d) => `no band ${d.values.bandId}`,
+  'no-such-output': (d) => `no output ${d.values.outputId}`,
+  'rate-range': (d) => `sample rate must be ${d.values.minHz} to ${d.values.maxHz} Hz`,
+  'rate-misfit': (d) => {
+    const { misfits } = d.values;
+    const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';
+    const named = misfits.slice(0, 3).map((m) => `${misfitPath(m.target)} at ${fmtHz(m.frequencyHz)}`);
+    return `${fmtHz(d.values.sampleRateHz)} refused: Nyquist would be ${fmtHz(d.values.nyquistHz)}, below ${named.join(', ')}${more}. Lower those first.`;
+  },
+};
+
+function prefixed(t: DiagnosticTarget, reason: string): string {
+  const where = targetPath(t);
+  return where ? `${where}: ${reason}` : reason;
+}
+
+function misfitPath(t: RateMisfit['target']): string {
+  return t.kind === 'band' ? `${t.chain === 'input' ? 'input chain' : t.chain} band ${t.bandId}` : `${t.outputId} ${t.edge === 'highPass' ? 'high-pass' : 'low-pass'}`;
+}
+
+/** The diagnostic in the command line's words (ids and field paths). */
+export function diagnosticMessage(d: Diagnostic): string {
+  return (MESSAGES[d.code] as (d: Diagnostic) => string)(d);
+}
+
+/**
+ * An error that carries a diagnostic: thrown inside a reader, caught at its edge and returned as
+ * a result. `message` is the command line's text (`diagnosticMessage`).
+ */
+export abstract class DiagnosticError<C extends DiagnosticCode = DiagnosticCode> extends Error {
+  constructor(readonly diagnostic: Diagnostic<C>) {
+    super(diagnosticMessage(diagnostic as Diagnostic));
+  }
+}
