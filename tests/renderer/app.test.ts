@@ -52,6 +52,10 @@ class FakeHost implements Host {
     return r;
   }
   async discardRecovery() {}
+  settled: string[] = [];
+  async settleRecovery(choice: "restore" | "discard") {
+    this.settled.push(choice);
+  }
   async initialDocument() {
     return this.initial;
   }
@@ -134,6 +138,8 @@ describe('start-up', () => {
     expect(doc.plan.name).toBe('Recovered work');
     expect(doc.dirty).toBe(true);
     expect(target.querySelector('[data-testid="recovery"]')).toBeNull();
+    // Only now may the host delete its copy.
+    expect(host.settled).toEqual(['restore']);
   });
 });
 

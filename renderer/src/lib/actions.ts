@@ -199,10 +199,11 @@ export async function savePlan(as = false): Promise<boolean> {
   return false;
 }
 
-export async function revertPlan(): Promise<void> {
+/** Re-reads the saved file. `ask: false` when the user already chose to (main's changed-on-disk question). */
+export async function revertPlan(opts: { ask?: boolean } = {}): Promise<void> {
   const path = doc.path;
   if (!path) return view.notify('info', 'This plan has never been saved; nothing to revert to.');
-  if (doc.dirty && typeof window.confirm === 'function' && !window.confirm(`Discard the changes since ${doc.fileName} was saved?`)) return;
+  if (opts.ask !== false && doc.dirty && typeof window.confirm === 'function' && !window.confirm(`Discard the changes since ${doc.fileName} was saved?`)) return;
   const r = await getHost().revertPlan(path);
   if (r.ok) {
     loadDocument(r.value);
