@@ -12,6 +12,7 @@ import { roundFrequency, roundGain, roundQ } from '../../../src/ui/units';
 import type { Host } from '../host/host';
 import { BAND_TYPE_LABEL } from './labels';
 import { documentState as doc } from '../state/document.svelte';
+import { pendingEdits } from './pending.svelte';
 import { viewState as view } from '../state/view.svelte';
 
 /** Applies an edit result; a refusal becomes the notice. Returns true when applied. */
@@ -187,6 +188,12 @@ export async function openPlan(): Promise<void> {
 
 export async function savePlan(as = false): Promise<boolean> {
   const h = getHost();
+  // Text typed but not yet applied goes into the plan first; a save without it would say "saved".
+  const refusal = pendingEdits.commit();
+  if (refusal !== null) {
+    view.notify('error', `Not saved: ${refusal}. Correct the entry, or press Escape in it to drop it, then save again.`, 15000);
+    return false;
+  }
   const plan = doc.plan;
   const r = as || !doc.path ? await h.savePlanAs(plan, doc.path) : await h.savePlan(plan, doc.path);
   if (r.ok) {
