@@ -12,6 +12,8 @@
  *     stays on one file system and is atomic), which is flushed with fsync;
  *  3. the current target, if any, is copied the same way (temp, fsync, rename) to `<target>.bak`;
  *  4. the temporary file is renamed over the target, and the directory is flushed (best effort).
+ * Before step 2, `savePlanFileChecked` refuses a read-only file, a link to a file not named
+ * `*.bqplan`, and (when told what the window last saw) a file another program changed meanwhile.
  * A failure at any step removes the temporary files and leaves the target as it was. A process
  * killed between steps leaves at most a hidden `.*.tmp` file; the target is never half written,
  * because it is only ever replaced by rename (POSIX rename(2); Windows MoveFileEx with
@@ -19,7 +21,7 @@
  */
 import * as nodeFs from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
-import { randomBytes } from 'node:crypto';
+import { createHash, randomBytes } from 'node:crypto';
 import { readPlanText, readPlanValue } from '../src/plan/read';
 import { writePlanText } from '../src/plan/write';
 import type { Plan } from '../src/plan/types';
@@ -44,8 +46,17 @@ export interface FileSystem {
   open(path: string, flags: string, mode?: number): Promise<WritableHandle>;
   rename(from: string, to: string): Promise<void>;
   unlink(path: string): Promise<void>;
-  stat(path: string): Promise<{ size: number; mode: number; isFile(): boolean }>;
+  stat(path: string): Promise<FileStats>;
+  /** Like `stat`, but a symbolic link is described itself rather than followed. */
+  lstat(path: string): Promise<FileStats & { isSymbolicLink(): boolean }>;
   realpath(path: string): Promise<string>;
+}
+
+export interface FileStats {
+  size: number;
+  mode: number;
+  mtimeMs: number;
+  isFile(): boolean;
 }
 
 export const realFileSystem: FileSystem = {
@@ -54,6 +65,7 @@ export const realFileSystem: FileSystem = {
   rename: (a, b) => nodeFs.rename(a, b),
   unlink: (p) => nodeFs.unlink(p),
   stat: (p) => nodeFs.stat(p),
+  lstat: (p) => nodeFs.lstat(p),
   realpath: (p) => nodeFs.realpath(p),
 };
 
@@ -93,14 +105,54 @@ export function isPlanPath(path: string): boolean {
 }
 
 /**
+ * What a plan file looked like when this window last read or wrote it: size, modification time and
+ * a SHA-256 of its bytes. A save compares it with the file as it is now, to notice a change made
+ * by another program in between (the time alone can miss a change within the file system's time
+ * resolution, or one that restores the time; the hash cannot).
+ */
+export interface DiskFingerprint {
+  size: number;
+  mtimeMs: number;
+  sha256: string;
+}
+
+export function sha256(bytes: string | Uint8Array): string {
+  return createHash('sha256').update(bytes).digest('hex');
+}
+
+export function sameFingerprint(a: DiskFingerprint, b: DiskFingerprint): boolean {
+  return a.size === b.size && a.mtimeMs === b.mtimeMs && a.sha256 === b.sha256;
+}
+
+/** The file's fingerprint now, or null when there is no file at `path`. */
+export async function fingerprintFile(path: string, fs: FileSystem = realFileSystem): Promise<DiskFingerprint | null> {
+  let st: FileStats;
+  try {
+    st = await fs.stat(path);
+  } catch (e) {
+    if (errorCode(e) === 'ENOENT') return null;
+    throw e;
+  }
+  if (!st.isFile() || st.size > MAX_PLAN_FILE_BYTES) return { size: st.size, mtimeMs: st.mtimeMs, sha256: '' };
+  return { size: st.size, mtimeMs: st.mtimeMs, sha256: sha256(await fs.readFile(path)) };
+}
+
+/**
  * Reads a plan file. A file the core refuses comes back as `{ok: false}` with the reader's message,
  * field path included (`outputs[1].bands[0].q: must be > 0`). Reading never writes.
  */
 export async function readPlanFile(path: string, fs: FileSystem = realFileSystem): Promise<FileResult<Plan>> {
+  const read = await readPlanFileTracked(path, fs);
+  return read.ok ? { ok: true, value: read.value.plan } : read;
+}
+
+/** `readPlanFile`, also giving the fingerprint of the bytes it read (see `DiskFingerprint`). */
+export async function readPlanFileTracked(path: string, fs: FileSystem = realFileSystem): Promise<FileResult<{ plan: Plan; disk: DiskFingerprint }>> {
   const name = basename(path);
   let bytes: Buffer;
+  let st: FileStats;
   try {
-    const st = await fs.stat(path);
+    st = await fs.stat(path);
     if (!st.isFile()) return { ok: false, error: `Cannot open "${name}": it is not a file.` };
     if (st.size > MAX_PLAN_FILE_BYTES) {
       return { ok: false, error: `Cannot open "${name}": ${st.size} bytes is too large for a plan (at most ${MAX_PLAN_FILE_BYTES}).` };
@@ -119,7 +171,7 @@ export async function readPlanFile(path: string, fs: FileSystem = realFileSystem
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   const read = readPlanText(text);
   if (!read.ok) return { ok: false, error: `Cannot open "${name}": ${read.error.message}` };
-  return { ok: true, value: read.plan };
+  return { ok: true, value: { plan: read.plan, disk: { size: bytes.length, mtimeMs: st.mtimeMs, sha256: sha256(bytes) } } };
 }
 
 function tempPathBeside(target: string): string {
@@ -221,21 +273,87 @@ export async function writeFileAtomic(
   await syncDirectory(fs, dirname(real));
 }
 
+/** Why a save did not happen, for the caller to act on: ask about a changed file, or just say why. */
+export type PlanSaveResult =
+  | { ok: true; value: Plan; disk: DiskFingerprint | null }
+  | { ok: false; error: string; changedOnDisk?: undefined }
+  | { ok: false; error: string; changedOnDisk: DiskFingerprint | null };
+
+export interface PlanSaveOptions {
+  /**
+   * The file as this window last read or wrote it. When given, a file that differs now (changed,
+   * replaced or removed by another program) is not written: the result says `changedOnDisk`.
+   * Leave it out to overwrite whatever is there (Save As, after the OS dialog's own question, or
+   * once the user chose Overwrite).
+   */
+  expected?: DiskFingerprint;
+}
+
+/**
+ * Why `path` must not be written as a plan, or null when it may: a read-only file is refused
+ * (replacing it by rename would succeed on most systems and silently drop the protection), and so
+ * is a symbolic link that leads to a file not named `*.bqplan` (the link's name must not let a plan
+ * overwrite some other file).
+ */
+export async function planWriteRefusal(path: string, fs: FileSystem = realFileSystem): Promise<string | null> {
+  let real = path;
+  try {
+    const link = await fs.lstat(path);
+    if (link.isSymbolicLink()) {
+      real = await fs.realpath(path);
+      if (!isPlanPath(real)) return 'it is a link to a file that is not a plan (not named *.bqplan)';
+    }
+    const st = await fs.stat(real);
+    if (!st.isFile()) return 'it is a folder, not a file';
+    // No write permission for anyone: the user (or a tool) made it read-only. Checked by mode bits
+    // rather than access(2), which always says yes to an administrator.
+    if ((st.mode & 0o222) === 0) return 'the file is read-only. Use Save As to save under another name, or make the file writable and save again';
+  } catch (e) {
+    if (errorCode(e) === 'ENOENT') return null; // a new file
+    return describeFileError(e);
+  }
+  return null;
+}
+
 /**
  * Saves a plan: validates it with the core's reader (a bad plan is refused with the field path and
- * nothing on disk changes), serializes it with `writePlanText`, and writes it atomically keeping
- * `<path>.bak`. Returns the plan as written (defaults filled in by the reader).
+ * nothing on disk changes), refuses a read-only file or a link to a non-plan file, checks that the
+ * file is still as `options.expected` says, serializes it with `writePlanText`, and writes it
+ * atomically keeping `<path>.bak`. Returns the plan as written (defaults filled in by the reader)
+ * and the new file's fingerprint.
  */
-export async function savePlanFile(path: string, plan: unknown, fs: FileSystem = realFileSystem): Promise<FileResult<Plan>> {
+export async function savePlanFileChecked(path: string, plan: unknown, options: PlanSaveOptions = {}, fs: FileSystem = realFileSystem): Promise<PlanSaveResult> {
   const name = basename(path);
   const read = readPlanValue(plan);
   if (!read.ok) return { ok: false, error: `Not saved to "${name}": the plan is invalid: ${read.error.message}` };
+  const text = writePlanText(read.plan);
   try {
-    await writeFileAtomic(path, writePlanText(read.plan), { backup: true }, fs);
+    const refusal = await planWriteRefusal(path, fs);
+    if (refusal !== null) return { ok: false, error: `Not saved to "${name}": ${refusal}. The file on disk is unchanged.` };
+    if (options.expected) {
+      const now = await fingerprintFile(path, fs);
+      if (now === null || !sameFingerprint(now, options.expected)) {
+        return { ok: false, changedOnDisk: now, error: `Not saved to "${name}": another program changed it since it was opened or saved here.` };
+      }
+    }
+    await writeFileAtomic(path, text, { backup: true }, fs);
   } catch (e) {
     return { ok: false, error: `Not saved to "${name}": ${describeFileError(e)}. The file on disk is unchanged.` };
   }
-  return { ok: true, value: read.plan };
+  let disk: DiskFingerprint | null = null;
+  try {
+    const st = await fs.stat(path);
+    disk = { size: st.size, mtimeMs: st.mtimeMs, sha256: sha256(text) };
+  } catch {
+    // Saved, but not describable now: the next save will ask before overwriting.
+  }
+  return { ok: true, value: read.plan, disk };
+}
+
+/** `savePlanFileChecked` without the on-disk check, for callers that only need the plan back. */
+export async function savePlanFile(path: string, plan: unknown, fs: FileSystem = realFileSystem): Promise<FileResult<Plan>> {
+  const saved = await savePlanFileChecked(path, plan, {}, fs);
+  return saved.ok ? { ok: true, value: saved.value } : { ok: false, error: saved.error };
 }
 
 /** Writes an export (coefficient text etc.) atomically, without a backup. */

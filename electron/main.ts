@@ -24,14 +24,16 @@ import {
   type SaveDialogOptions,
 } from 'electron';
 import { readFile } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { IPC, type HostResult, type MenuCommand, type PlanDocument } from '../src/ipc';
 import type { Plan } from '../src/plan/types';
-import { RecoveryStore } from './autosave';
-import { isPlanPath, readPlanFile, savePlanFile, saveTextFile, withPlanExtension } from './files';
+import { recoverablePath, RecoveryStore, type Leftover } from './autosave';
+import { CloseAfterSave } from './close-after-save';
+import { isPlanPath, readPlanFileTracked, savePlanFileChecked, saveTextFile, withPlanExtension, type DiskFingerprint } from './files';
 import { planPathsFromArgv } from './launch-args';
 import { buildMenuTemplate } from './menu';
+import { answerOf, changedOnDiskPrompt } from './prompts';
 import { addRecent, defaultCaseInsensitive, hasRecent, loadRecent, removeRecent, samePathKey, saveRecent } from './recent';
 import { APP_BASE, APP_ENTRY_URL, APP_SCHEME, appResponseHeaders, contentSecurityPolicy, resolveAppAsset, withCsp } from './security';
 import { APP_NAME, documentLabel, windowTitle } from './title';
@@ -45,6 +47,7 @@ import {
   validateOptionalPath,
   validatePath,
   validatePlan,
+  validateRecoveryChoice,
   validateText,
   validateTitle,
 } from './validate';
@@ -78,11 +81,15 @@ interface WindowState {
   initialPath: string | null;
   /** Files the user chose for this window: `savePlan` and `revertPlan` accept only these. */
   readonly granted: Set<string>;
+  /** The plan file as this window last read or wrote it (for `path`): a save checks it first. */
+  disk: DiskFingerprint | null;
   /** Created to offer a crashed session's work: `takeRecovery` hands it one leftover. */
   offersRecovery: boolean;
+  /** The leftover offered to this window, kept until the user restores or discards it. */
+  offered: Leftover | null;
   prompting: boolean;
-  /** The user chose Save in the close prompt: the next successful save closes the window. */
-  closeAfterSaveUntil: number;
+  /** The user chose Save in the close prompt: the save that answers it closes the window. */
+  readonly closeAfterSave: CloseAfterSave;
   closeConfirmed: boolean;
 }
 
@@ -215,9 +222,11 @@ function createWindow(options: { initialPath?: string; offersRecovery?: boolean 
     dirty: false,
     initialPath: options.initialPath ?? null,
     granted: new Set(),
+    disk: null,
     offersRecovery: options.offersRecovery ?? false,
+    offered: null,
     prompting: false,
-    closeAfterSaveUntil: 0,
+    closeAfterSave: new CloseAfterSave(),
     closeConfirmed: false,
   };
   if (options.initialPath) grant(state, options.initialPath);
@@ -232,6 +241,8 @@ function createWindow(options: { initialPath?: string; offersRecovery?: boolean 
   });
   win.on('closed', () => {
     windows.delete(state.id);
+    // Offered work the user did not answer stays on disk for a later offer.
+    if (state.offered) recovery.unclaim(state.offered.name);
     // A window that closes (saved, clean, or changes discarded) leaves no recovery slot behind.
     void recovery.remove(state.id).catch(() => undefined);
   });
@@ -287,8 +298,8 @@ async function promptBeforeClose(state: WindowState): Promise<void> {
   }
   if (state.win.isDestroyed()) return;
   if (response === 0) {
-    // The renderer holds the plan: ask it to save; a successful save closes the window.
-    state.closeAfterSaveUntil = Date.now() + 10 * 60 * 1000;
+    // The renderer holds the plan: ask it to save; the save that answers, if it succeeds, closes the window.
+    state.closeAfterSave.arm();
     sendCommand(state, 'save');
   } else if (response === 1) {
     state.closeConfirmed = true;
@@ -300,10 +311,8 @@ async function promptBeforeClose(state: WindowState): Promise<void> {
   }
 }
 
-/** After a save: closes the window if the close prompt asked for it. */
-function afterSave(state: WindowState, saved: boolean): void {
-  const wanted = state.closeAfterSaveUntil > Date.now();
-  state.closeAfterSaveUntil = 0;
+/** After a save call (`wanted`: the close prompt asked for it): closes the window if it saved. */
+function afterSave(state: WindowState, wanted: boolean, saved: boolean): void {
   if (!wanted) return;
   if (!saved) {
     quitting = false;
@@ -333,32 +342,60 @@ async function openWithDialog(win: BrowserWindow | undefined): Promise<void> {
 
 /** Reads a plan for a window; on success the window shows that file and may save to it. */
 async function loadFor(state: WindowState, path: string): Promise<HostResult<PlanDocument>> {
-  const read = await readPlanFile(path);
+  const read = await readPlanFileTracked(path);
   if (!read.ok) {
     if (/does not exist/.test(read.error) && hasRecent(recent, path, { caseInsensitive: CASE_INSENSITIVE })) await forgetRecent(path);
     return { ok: false, error: read.error };
   }
   state.path = path;
-  state.name = read.value.name;
+  state.name = read.value.plan.name;
+  state.disk = read.value.disk;
   grant(state, path);
   refreshTitle(state);
   await rememberRecent(path);
-  return { ok: true, value: { plan: read.value, path } };
+  return { ok: true, value: { plan: read.value.plan, path } };
 }
 
-async function savePlanTo(state: WindowState, plan: Plan, path: string): Promise<HostResult<string>> {
-  const saved = await savePlanFile(path, plan);
-  if (!saved.ok) {
-    afterSave(state, false);
-    return { ok: false, error: saved.error };
+/** Whether `path` is the file this window shows (so its fingerprint applies). */
+function isShownFile(state: WindowState, path: string): boolean {
+  return state.path !== null && pathKey(state.path) === pathKey(path);
+}
+
+/**
+ * Saves to a granted path. When the window knows what the file looked like (it opened or saved it)
+ * and another program changed it since, asks: overwrite, reload from disk, save as, or cancel.
+ */
+async function savePlanTo(state: WindowState, plan: Plan, path: string, checkDisk: boolean): Promise<HostResult<string>> {
+  const expected = checkDisk && isShownFile(state, path) && state.disk ? state.disk : undefined;
+  let saved = await savePlanFileChecked(path, plan, { expected });
+  if (!saved.ok && saved.changedOnDisk !== undefined) {
+    const prompt = changedOnDiskPrompt(basename(path), saved.changedOnDisk === null);
+    const { response } = await dialog.showMessageBox(state.win, {
+      type: prompt.type,
+      buttons: prompt.buttons,
+      defaultId: prompt.defaultId,
+      cancelId: prompt.cancelId,
+      noLink: true,
+      title: APP_NAME,
+      message: prompt.message,
+      detail: prompt.detail,
+    });
+    const answer = answerOf(prompt, response, 'cancel');
+    if (answer === 'overwrite') saved = await savePlanFileChecked(path, plan, {});
+    else if (answer === 'saveAs') return savePlanWithDialog(state, plan, path);
+    else {
+      if (answer === 'reload') sendCommand(state, 'reload');
+      return { ok: false, cancelled: true };
+    }
   }
+  if (!saved.ok) return { ok: false, error: saved.error };
   state.path = path;
   state.name = saved.value.name;
+  state.disk = saved.disk;
   grant(state, path);
   await recovery.remove(state.id).catch(() => undefined);
   await rememberRecent(path);
   refreshTitle(state);
-  afterSave(state, true);
   return { ok: true, value: path };
 }
 
@@ -376,11 +413,24 @@ async function savePlanWithDialog(state: WindowState, plan: Plan, suggestedPath:
     properties: ['createDirectory', 'showOverwriteConfirmation'],
   };
   const result = await dialog.showSaveDialog(state.win, options);
-  if (result.canceled || !result.filePath) {
-    afterSave(state, false);
-    return { ok: false, cancelled: true };
+  if (result.canceled || !result.filePath) return { ok: false, cancelled: true };
+  // The dialog has asked about replacing an existing file; no second question about its content.
+  return savePlanTo(state, plan, withPlanExtension(result.filePath), false);
+}
+
+/**
+ * A save call from the page. The close prompt's "save, then close" request is taken up here,
+ * before anything can refuse, so any outcome other than a successful save disarms it.
+ */
+async function saveCall(state: WindowState, run: () => Promise<HostResult<string>>): Promise<HostResult<string>> {
+  const closeAfter = state.closeAfterSave.take();
+  let result: HostResult<string> = { ok: false, cancelled: true };
+  try {
+    result = await run();
+    return result;
+  } finally {
+    afterSave(state, closeAfter, result.ok);
   }
-  return savePlanTo(state, plan, withPlanExtension(result.filePath));
 }
 
 // ---- IPC ---------------------------------------------------------------------------------------
@@ -443,26 +493,30 @@ function registerIpc(): void {
     return loadFor(state, p.value);
   });
 
-  handle(IPC.savePlan, 2, async (state, [plan, path]) => {
-    const pl = validatePlan(plan);
-    if (!pl.ok) return bad(IPC.savePlan, pl.error);
-    const p = validateOptionalPath(path);
-    if (!p.ok) return bad(IPC.savePlan, p.error);
-    if (p.value === null) return savePlanWithDialog(state, pl.value, null);
-    if (!isPlanPath(p.value) || !isGranted(state, p.value)) {
-      // Only files the user chose for this window; anything else goes through the dialog.
-      return savePlanWithDialog(state, pl.value, isPlanPath(p.value) ? p.value : null);
-    }
-    return savePlanTo(state, pl.value, p.value);
-  });
+  handle(IPC.savePlan, 2, (state, [plan, path]) =>
+    saveCall(state, async () => {
+      const pl = validatePlan(plan);
+      if (!pl.ok) return bad(IPC.savePlan, pl.error);
+      const p = validateOptionalPath(path);
+      if (!p.ok) return bad(IPC.savePlan, p.error);
+      if (p.value === null) return savePlanWithDialog(state, pl.value, null);
+      if (!isPlanPath(p.value) || !isGranted(state, p.value)) {
+        // Only files the user chose for this window; anything else goes through the dialog.
+        return savePlanWithDialog(state, pl.value, isPlanPath(p.value) ? p.value : null);
+      }
+      return savePlanTo(state, pl.value, p.value, true);
+    }),
+  );
 
-  handle(IPC.savePlanAs, 2, async (state, [plan, suggestedPath]) => {
-    const pl = validatePlan(plan);
-    if (!pl.ok) return bad(IPC.savePlanAs, pl.error);
-    const p = validateOptionalPath(suggestedPath, 'suggestedPath');
-    if (!p.ok) return bad(IPC.savePlanAs, p.error);
-    return savePlanWithDialog(state, pl.value, p.value);
-  });
+  handle(IPC.savePlanAs, 2, (state, [plan, suggestedPath]) =>
+    saveCall(state, async () => {
+      const pl = validatePlan(plan);
+      if (!pl.ok) return bad(IPC.savePlanAs, pl.error);
+      const p = validateOptionalPath(suggestedPath, 'suggestedPath');
+      if (!p.ok) return bad(IPC.savePlanAs, p.error);
+      return savePlanWithDialog(state, pl.value, p.value);
+    }),
+  );
 
   handle(IPC.revertPlan, 1, async (state, [path]) => {
     const p = validatePath(path);
@@ -474,19 +528,40 @@ function registerIpc(): void {
   handle(IPC.autosave, 1, async (state, [doc]) => {
     const d = validateDocument(doc);
     if (!d.ok) refused(IPC.autosave, d.error);
-    await recovery.write(state.id, d.value);
+    // Main records whether the path is one the user chose for this window; the page cannot say so.
+    const granted = d.value.path !== null && isGranted(state, d.value.path);
+    await recovery.write(state.id, d.value, { pathGranted: granted, disk: granted && isShownFile(state, d.value.path!) ? state.disk : null });
   });
 
   handle(IPC.takeRecovery, 0, async (state) => {
-    if (!state.offersRecovery) return null;
-    state.offersRecovery = false;
-    const doc = await recovery.takeLeftover();
-    if (doc?.path && isPlanPath(doc.path)) {
+    if (!state.offered) {
+      if (!state.offersRecovery) return null;
+      state.offersRecovery = false;
+      const left = await recovery.claimLeftover();
+      if (!left) return null;
+      const inRecent = (p: string): boolean => hasRecent(recent, p, { caseInsensitive: CASE_INSENSITIVE });
+      const path = await recoverablePath(left.doc.path, left.meta, inRecent);
+      state.offered = { name: left.name, doc: { plan: left.doc.plan, path }, meta: path === null ? { pathGranted: false, disk: null } : left.meta };
+    }
+    // Offered again, unchanged, until the user answers (the page may reload before that).
+    return state.offered.doc;
+  });
+
+  handle(IPC.settleRecovery, 1, async (state, [choice]) => {
+    const c = validateRecoveryChoice(choice);
+    if (!c.ok) refused(IPC.settleRecovery, c.error);
+    const offered = state.offered;
+    if (!offered) return;
+    state.offered = null;
+    if (c.value === 'discard') return recovery.discardLeftover(offered.name);
+    const { doc, meta } = offered;
+    if (doc.path !== null) {
       grant(state, doc.path);
       state.path = doc.path;
+      state.disk = meta.disk;
       refreshTitle(state);
     }
-    return doc;
+    await recovery.restoreLeftover(offered.name, state.id, doc, { pathGranted: doc.path !== null, disk: meta.disk });
   });
 
   handle(IPC.discardRecovery, 0, async (state) => {

@@ -18,6 +18,7 @@ const api: DesktopApi = {
   autosave: (doc) => ipcRenderer.invoke(IPC.autosave, doc),
   takeRecovery: () => ipcRenderer.invoke(IPC.takeRecovery),
   discardRecovery: () => ipcRenderer.invoke(IPC.discardRecovery),
+  settleRecovery: (choice) => ipcRenderer.invoke(IPC.settleRecovery, choice),
   initialDocument: () => ipcRenderer.invoke(IPC.initialDocument),
   setDirty: (dirty, title, path) => {
     if (path === undefined) ipcRenderer.send(IPC.setDirty, dirty, title);

@@ -9,7 +9,7 @@
 import { basename, isAbsolute } from 'node:path';
 import { readPlanValue } from '../src/plan/read';
 import type { Plan } from '../src/plan/types';
-import type { PlanDocument } from '../src/ipc';
+import type { PlanDocument, RecoveryChoice } from '../src/ipc';
 
 export type Valid<T> = { ok: true; value: T } | { ok: false; error: string };
 
@@ -96,6 +96,10 @@ export function validateExtensions(value: unknown): Valid<string[]> {
     if (typeof e !== 'string' || !/^[A-Za-z0-9]{1,16}$/.test(e)) return refuse(`extensions[${i}]: must be 1 to 16 letters or digits, no dot`);
   }
   return { ok: true, value: [...(value as string[])] };
+}
+
+export function validateRecoveryChoice(value: unknown): Valid<RecoveryChoice> {
+  return value === 'restore' || value === 'discard' ? { ok: true, value } : refuse('choice: must be "restore" or "discard"');
 }
 
 /** Refuses a call with more (or fewer) arguments than the method takes. */

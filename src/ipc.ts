@@ -18,6 +18,7 @@ export const IPC = {
   autosave: 'plan:autosave',
   takeRecovery: 'plan:take-recovery',
   discardRecovery: 'plan:discard-recovery',
+  settleRecovery: 'plan:settle-recovery',
   initialDocument: 'plan:initial',
   setDirty: 'window:set-dirty',
   saveText: 'file:save-text',
@@ -30,15 +31,21 @@ export interface PlanDocument {
   path: string | null;
 }
 
+export type RecoveryChoice = 'restore' | 'discard';
+
 export type HostResult<T> = { ok: true; value: T } | { ok: false; error: string } | { ok: false; cancelled: true };
 
-/** Commands the application menu sends to the focused window's renderer. */
+/**
+ * Commands the application menu sends to the focused window's renderer. `reload` comes from main's
+ * own question about a plan changed on disk: re-read the file without asking again.
+ */
 export type MenuCommand =
   | 'new'
   | 'open'
   | 'save'
   | 'saveAs'
   | 'revert'
+  | 'reload'
   | 'undo'
   | 'redo'
   | 'export'
@@ -53,6 +60,7 @@ export const MENU_COMMANDS: readonly MenuCommand[] = [
   'save',
   'saveAs',
   'revert',
+  'reload',
   'undo',
   'redo',
   'export',
@@ -75,8 +83,15 @@ export interface DesktopApi {
   revertPlan(path: string): Promise<HostResult<PlanDocument>>;
   /** Stores unsaved work in the user data folder (crash recovery). */
   autosave(doc: PlanDocument): Promise<void>;
-  /** The autosaved document left by a crash, if any (removed from the recovery slot once taken). */
+  /**
+   * The autosaved document left by a crash, if any. It stays stored until `settleRecovery`: a page
+   * that reloads or closes before the user answers is offered it again. Its path is null unless the
+   * user had chosen that file (see electron/autosave.ts `recoverablePath`).
+   */
   takeRecovery(): Promise<PlanDocument | null>;
+  /** The user restored (kept) or discarded the document `takeRecovery` gave. */
+  settleRecovery(choice: RecoveryChoice): Promise<void>;
+  /** Clears this window's own autosave (its work was saved, or is back to the saved plan). */
   discardRecovery(): Promise<void>;
   /** The document this window was opened for (a path from the command line or the OS), or null. */
   initialDocument(): Promise<HostResult<PlanDocument> | null>;

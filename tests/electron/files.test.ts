@@ -3,7 +3,7 @@
  * bad files. Real files in a temporary folder; failures are injected by wrapping the real file
  * system, so each step of a save can be made to fail (or the process to "die") in turn.
  */
-import { mkdtemp, readFile, readdir, rm, stat, symlink, writeFile, chmod, lstat } from 'node:fs/promises';
+import { mkdtemp, readFile, readdir, rm, stat, symlink, utimes, writeFile, chmod, lstat } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
@@ -12,6 +12,9 @@ import { writePlanText } from '../../src/plan/write';
 import type { Plan } from '../../src/plan/types';
 import {
   BACKUP_SUFFIX,
+  fingerprintFile,
+  planWriteRefusal,
+  savePlanFileChecked,
   readPlanFile,
   realFileSystem,
   savePlanFile,
@@ -103,6 +106,7 @@ function faulty(step: Step, nth = 1, options: { partialWrite?: boolean; dieAfter
       await realFileSystem.unlink(p);
     },
     stat: (p: string) => realFileSystem.stat(p),
+    lstat: (p: string) => realFileSystem.lstat(p),
     realpath: (p: string) => realFileSystem.realpath(p),
   };
   return fs;
@@ -299,5 +303,50 @@ describe('small helpers', () => {
 
   it('writeFileAtomic refuses to replace a folder', async () => {
     await expect(writeFileAtomic(dir, 'x', { backup: true })).rejects.toThrow();
+  });
+});
+
+describe('the file as this window last saw it', () => {
+  it('a change that keeps the size and the modification time is still noticed (by its hash)', async () => {
+    const plan = await demoPlan();
+    const p = join(dir, 'seen.bqplan');
+    const first = await savePlanFileChecked(p, renamed(plan, 'AAAA'), {});
+    expect(first.ok).toBe(true);
+    const seen = first.ok ? first.disk! : null;
+    expect(seen).toEqual(await fingerprintFile(p));
+    // Another program writes a plan of the same length and puts the time back.
+    const before = await stat(p);
+    await writeFile(p, (await readFile(p, 'utf8')).replace('"AAAA"', '"BBBB"'));
+    await utimes(p, before.atime, before.mtime);
+    expect((await stat(p)).size).toBe(before.size);
+    const r = await savePlanFileChecked(p, renamed(plan, 'mine'), { expected: seen! });
+    expect(r.ok).toBe(false);
+    expect(!r.ok && r.changedOnDisk).toEqual(await fingerprintFile(p));
+    expect(JSON.parse(await readFile(p, 'utf8')).name).toBe('BBBB');
+    // Unchanged since: saved.
+    const again = await savePlanFileChecked(p, renamed(plan, 'mine'), { expected: (await fingerprintFile(p))! });
+    expect(again.ok).toBe(true);
+  });
+
+  it('a file removed meanwhile is reported as changed (null), not silently recreated', async () => {
+    const plan = await demoPlan();
+    const p = join(dir, 'gone.bqplan');
+    const first = await savePlanFileChecked(p, plan, {});
+    await rm(p);
+    const r = await savePlanFileChecked(p, plan, { expected: first.ok ? first.disk! : undefined });
+    expect(!r.ok && r.changedOnDisk).toBeNull();
+  });
+
+  it('a read-only file is refused by its mode bits (even for an administrator, whom access(2) always lets write)', async () => {
+    if (process.platform === 'win32') return;
+    const plan = await demoPlan();
+    const p = join(dir, 'locked.bqplan');
+    await savePlanFile(p, plan);
+    await chmod(p, 0o444);
+    expect(await planWriteRefusal(p)).toMatch(/^the file is read-only/);
+    const r = await savePlanFile(p, renamed(plan, 'new'));
+    expect(r.ok).toBe(false);
+    expect(JSON.parse(await readFile(p, 'utf8')).name).toBe(plan.name);
+    expect(await planWriteRefusal(join(dir, 'new.bqplan'))).toBeNull();
   });
 });

@@ -3,7 +3,7 @@
  * sender check, payload validation through the real handlers, the save/open flows on real files,
  * the close prompt, crash recovery across two "sessions", and the app scheme's CSP header.
  */
-import { mkdtemp, readdir, readFile, rm, writeFile } from 'node:fs/promises';
+import { chmod, mkdtemp, readdir, readFile, rm, stat, symlink, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
@@ -319,7 +319,7 @@ describe('unsaved changes', () => {
 });
 
 describe('crash recovery across sessions', () => {
-  it('work autosaved before a crash is offered once in the next session', async () => {
+  it('work autosaved before a crash is offered in the next session until the user answers', async () => {
     await boot();
     const [win] = fake.windows;
     const doc = { plan: { ...plan, name: 'Unsaved work' }, path: null };
@@ -329,6 +329,7 @@ describe('crash recovery across sessions', () => {
     const [next] = fake.windows;
     expect(fake.windows).toHaveLength(1);
     expect(await invoke(next, IPC.takeRecovery, [])).toEqual(doc);
+    await invoke(next, IPC.settleRecovery, ['discard']);
     expect(await invoke(next, IPC.takeRecovery, [])).toBeNull();
   });
 
@@ -341,5 +342,226 @@ describe('crash recovery across sessions', () => {
     await vi.waitFor(async () => expect(await readdir(join(root, 'appdata', 'Biquadrant', 'recovery'))).toEqual([]));
     await boot();
     expect(await invoke(fake.windows[0], IPC.takeRecovery, [])).toBeNull();
+  });
+});
+
+describe('recovered work is kept until the user decides', () => {
+  it('a window that closes before Restore or Discard leaves the work to be offered again', async () => {
+    await boot();
+    const doc = { plan: { ...plan, name: 'Unsaved work' }, path: null };
+    await invoke(fake.windows[0], IPC.autosave, [doc]);
+    await boot(); // crash, next session
+    const [offered] = fake.windows;
+    expect(await invoke(offered, IPC.takeRecovery, [])).toEqual(doc);
+    // The page reloads before the user answers: it is offered the same work again.
+    expect(await invoke(offered, IPC.takeRecovery, [])).toEqual(doc);
+    // The window closes without an answer, then the app ends: the next session offers it again.
+    offered.close();
+    await boot();
+    expect(await invoke(fake.windows[0], IPC.takeRecovery, [])).toEqual(doc);
+  });
+
+  it('Restore moves the work into the window own slot (a crash right after loses nothing); Discard deletes it', async () => {
+    await boot();
+    const doc = { plan: { ...plan, name: 'Unsaved work' }, path: null };
+    await invoke(fake.windows[0], IPC.autosave, [doc]);
+    await boot();
+    const [win] = fake.windows;
+    await invoke(win, IPC.takeRecovery, []);
+    await invoke(win, IPC.settleRecovery, ['restore']);
+    const dir = join(root, 'appdata', 'Biquadrant', 'recovery');
+    expect(await readdir(dir)).toEqual([`${win.id}.json`]);
+    expect(await invoke(win, IPC.takeRecovery, [])).toBeNull();
+    await boot(); // crash right after Restore
+    const [again] = fake.windows;
+    expect((await invoke(again, IPC.takeRecovery, [])).plan.name).toBe('Unsaved work');
+    await invoke(again, IPC.settleRecovery, ['discard']);
+    expect(await readdir(dir)).toEqual([]);
+    await expect(invoke(again, IPC.settleRecovery, ['maybe'])).rejects.toThrow(/choice: must be "restore" or "discard"/);
+  });
+});
+
+describe('a recovered document regains only a path the user chose', () => {
+  it('attack: a page autosaves a document claiming a path it was never given, crashes, and cannot save there after recovery', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const victim = join(root, 'victim.bqplan');
+    await writeFile(victim, 'not a plan, but precious');
+    // The compromised page claims the path in its autosave, then the session crashes.
+    await invoke(win, IPC.autosave, [{ plan, path: victim }]);
+    await boot();
+    const [next] = fake.windows;
+    const rec = await invoke(next, IPC.takeRecovery, []);
+    expect(rec.path).toBeNull(); // comes back untitled
+    await invoke(next, IPC.settleRecovery, ['restore']);
+    // Saving to the claimed path goes through the dialog (cancelled here); the file is untouched.
+    expect(await invoke(next, IPC.savePlan, [plan, victim])).toEqual({ ok: false, cancelled: true });
+    expect(await readFile(victim, 'utf8')).toBe('not a plan, but precious');
+    expect(fake.dialog.shown.map((d) => d.kind)).toEqual(['save']);
+  });
+
+  it('the same attack within one session (the renderer crashes and reloads) gains nothing either', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const victim = join(root, 'victim.bqplan');
+    await writeFile(victim, 'precious');
+    await invoke(win, IPC.autosave, [{ plan, path: victim }]);
+    win.webContents.emit('render-process-gone', {}, { reason: 'crashed' });
+    await vi.waitFor(() => expect(win.loaded).toHaveLength(2));
+    expect((await invoke(win, IPC.takeRecovery, [])).path).toBeNull();
+    await invoke(win, IPC.settleRecovery, ['restore']);
+    expect(await invoke(win, IPC.savePlan, [plan, victim])).toEqual({ ok: false, cancelled: true });
+    expect(await readFile(victim, 'utf8')).toBe('precious');
+  });
+
+  it('a path chosen through the dialog, or in the recent list and still there, comes back', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const chosen = join(root, 'chosen.bqplan');
+    fake.dialog.save.push(chosen);
+    await invoke(win, IPC.savePlan, [plan, null]);
+    await invoke(win, IPC.autosave, [{ plan: { ...plan, name: 'Edited' }, path: chosen }]);
+    await boot();
+    const [next] = fake.windows;
+    const rec = await invoke(next, IPC.takeRecovery, []);
+    expect(rec.path).toBe(chosen);
+    await invoke(next, IPC.settleRecovery, ['restore']);
+    expect(await invoke(next, IPC.savePlan, [rec.plan, chosen])).toEqual({ ok: true, value: chosen });
+    expect(JSON.parse(await readFile(chosen, 'utf8')).name).toBe('Edited');
+  });
+
+  it('a symbolic link named *.bqplan that points at another kind of file is not regained, even from the recent list', async () => {
+    if (process.platform === 'win32') return;
+    await boot();
+    const [win] = fake.windows;
+    const link = join(root, 'link.bqplan');
+    fake.dialog.save.push(link);
+    await invoke(win, IPC.savePlan, [plan, null]); // a real plan file, chosen by the user, in the recent list
+    await invoke(win, IPC.autosave, [{ plan, path: link }]);
+    // Meanwhile the file is replaced by a link to something that is not a plan.
+    const precious = join(root, 'precious.txt');
+    await writeFile(precious, 'precious');
+    await rm(link);
+    await symlink(precious, link);
+    await boot();
+    const [next] = fake.windows;
+    expect((await invoke(next, IPC.takeRecovery, [])).path).toBeNull();
+    await invoke(next, IPC.settleRecovery, ['restore']);
+    // The first window, which had chosen the file, may still name it, but the save through the link is refused.
+    const r = await invoke(next, IPC.savePlan, [plan, link]);
+    expect(r).toEqual({ ok: false, cancelled: true }); // not granted here: the dialog, cancelled
+    fake.dialog.save.push(link);
+    const viaDialog = await invoke(next, IPC.savePlan, [plan, null]);
+    expect(viaDialog.ok).toBe(false);
+    expect(viaDialog.error).toBe('Not saved to "link.bqplan": it is a link to a file that is not a plan (not named *.bqplan). The file on disk is unchanged.');
+    expect(await readFile(precious, 'utf8')).toBe('precious');
+  });
+});
+
+describe('the plan on disk is not silently replaced', () => {
+  async function openedIn(win: FakeBrowserWindow, name = 'plan.bqplan'): Promise<string> {
+    const p = join(root, name);
+    await writeFile(p, writePlanText(plan));
+    fake.dialog.open.push(p);
+    expect((await invoke(win, IPC.openPlan, [])).ok).toBe(true);
+    return p;
+  }
+
+  it('a file changed by another program since it was opened: asks; Cancel leaves it as the other program wrote it', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const p = await openedIn(win);
+    const theirs = writePlanText({ ...plan, name: 'Changed elsewhere' });
+    await writeFile(p, theirs);
+    fake.dialog.messageBox.push(3); // Cancel
+    const r = await invoke(win, IPC.savePlan, [{ ...plan, name: 'Mine' }, p]);
+    expect(r).toEqual({ ok: false, cancelled: true });
+    expect(await readFile(p, 'utf8')).toBe(theirs);
+    const box = fake.dialog.shown.find((d) => d.kind === 'message')!.options;
+    expect(box.message).toBe('"plan.bqplan" was changed by another program since you opened or saved it.');
+    expect(box.buttons).toEqual(['Overwrite', 'Reload from Disk', 'Save As…', 'Cancel']);
+  });
+
+  it('Overwrite replaces it (the other version kept as .bak); the next save does not ask again', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const p = await openedIn(win);
+    const theirs = writePlanText({ ...plan, name: 'Changed elsewhere' });
+    await writeFile(p, theirs);
+    fake.dialog.messageBox.push(0);
+    expect(await invoke(win, IPC.savePlan, [{ ...plan, name: 'Mine' }, p])).toEqual({ ok: true, value: p });
+    expect(JSON.parse(await readFile(p, 'utf8')).name).toBe('Mine');
+    expect(await readFile(p + '.bak', 'utf8')).toBe(theirs);
+    expect(await invoke(win, IPC.savePlan, [{ ...plan, name: 'Mine again' }, p])).toEqual({ ok: true, value: p });
+    expect(fake.dialog.shown.filter((d) => d.kind === 'message')).toHaveLength(1);
+  });
+
+  it('Reload from Disk asks the page to reload the file; Save As goes through the dialog', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const p = await openedIn(win);
+    await writeFile(p, writePlanText({ ...plan, name: 'Changed elsewhere' }));
+    fake.dialog.messageBox.push(1);
+    expect(await invoke(win, IPC.savePlan, [plan, p])).toEqual({ ok: false, cancelled: true });
+    expect(win.webContents.sent.at(-1)).toEqual({ channel: IPC.menuCommand, args: ['reload'] });
+    expect(JSON.parse(await readFile(p, 'utf8')).name).toBe('Changed elsewhere');
+    fake.dialog.messageBox.push(2);
+    const other = join(root, 'other.bqplan');
+    fake.dialog.save.push(other);
+    expect(await invoke(win, IPC.savePlan, [{ ...plan, name: 'Mine' }, p])).toEqual({ ok: true, value: other });
+    expect(JSON.parse(await readFile(p, 'utf8')).name).toBe('Changed elsewhere');
+    expect(JSON.parse(await readFile(other, 'utf8')).name).toBe('Mine');
+  });
+
+  it('a read-only plan is refused with a clear message and left as it is', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const p = await openedIn(win);
+    await chmod(p, 0o444);
+    const r = await invoke(win, IPC.savePlan, [{ ...plan, name: 'Mine' }, p]);
+    expect(r.ok).toBe(false);
+    expect(r.error).toBe('Not saved to "plan.bqplan": the file is read-only. Use Save As to save under another name, or make the file writable and save again. The file on disk is unchanged.');
+    expect(await readFile(p, 'utf8')).toBe(writePlanText(plan));
+    expect((await stat(p)).mode & 0o777).toBe(0o444);
+  });
+});
+
+describe('close after save', () => {
+  it('a save refused at the close prompt disarms it: a later ordinary save does not close the window', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const p = join(root, 'hall.bqplan');
+    fake.dialog.save.push(p);
+    await invoke(win, IPC.savePlan, [plan, null]);
+    send(win, IPC.setDirty, [true, 'Hall']);
+    fake.dialog.messageBox.push(0); // Save
+    win.close();
+    await vi.waitFor(() => expect(win.webContents.sent.at(-1)).toEqual({ channel: IPC.menuCommand, args: ['save'] }));
+    // The page answers with a plan main refuses.
+    const bad = structuredClone(plan) as any;
+    bad.outputs[0].lowPass.order = 5;
+    expect((await invoke(win, IPC.savePlan, [bad, p])).ok).toBe(false);
+    // Later, an ordinary save succeeds: the window stays open.
+    expect(await invoke(win, IPC.savePlan, [plan, p])).toEqual({ ok: true, value: p });
+    await new Promise((r) => setTimeout(r, 20));
+    expect(win.destroyed).toBe(false);
+  });
+
+  it('a read-only file at the close prompt: refused, and the window stays open after a later save elsewhere', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const p = join(root, 'hall.bqplan');
+    fake.dialog.save.push(p);
+    await invoke(win, IPC.savePlan, [plan, null]);
+    await chmod(p, 0o444);
+    send(win, IPC.setDirty, [true, 'Hall']);
+    fake.dialog.messageBox.push(0);
+    win.close();
+    await vi.waitFor(() => expect(win.webContents.sent.at(-1)).toEqual({ channel: IPC.menuCommand, args: ['save'] }));
+    expect((await invoke(win, IPC.savePlan, [plan, p])).ok).toBe(false);
+    fake.dialog.save.push(join(root, 'elsewhere.bqplan'));
+    expect((await invoke(win, IPC.savePlanAs, [plan, null])).ok).toBe(true);
+    await new Promise((r) => setTimeout(r, 20));
+    expect(win.destroyed).toBe(false);
   });
 });

@@ -35,7 +35,7 @@ describe('preload', async () => {
     expect(Object.keys(api).sort()).toEqual(
       [
         'autosave', 'discardRecovery', 'initialDocument', 'onMenuCommand', 'openPlan', 'openRecent', 'revertPlan',
-        'savePlan', 'savePlanAs', 'saveText', 'setDirty', 'takeRecovery',
+        'savePlan', 'savePlanAs', 'saveText', 'setDirty', 'settleRecovery', 'takeRecovery',
       ].sort(),
     );
     expect(Object.values(api).every((v) => typeof v === 'function')).toBe(true);
@@ -52,6 +52,7 @@ describe('preload', async () => {
     await api.autosave({ plan, path: null });
     await api.takeRecovery();
     await api.discardRecovery();
+    await api.settleRecovery('restore');
     await api.initialDocument();
     await api.saveText('c.txt', 'b0', ['txt']);
     api.setDirty(true, 'Plan');
@@ -65,6 +66,7 @@ describe('preload', async () => {
       { kind: 'invoke', channel: IPC.autosave, args: [{ plan, path: null }] },
       { kind: 'invoke', channel: IPC.takeRecovery, args: [] },
       { kind: 'invoke', channel: IPC.discardRecovery, args: [] },
+      { kind: 'invoke', channel: IPC.settleRecovery, args: ['restore'] },
       { kind: 'invoke', channel: IPC.initialDocument, args: [] },
       { kind: 'invoke', channel: IPC.saveText, args: ['c.txt', 'b0', ['txt']] },
       { kind: 'send', channel: IPC.setDirty, args: [true, 'Plan'] },

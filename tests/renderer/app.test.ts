@@ -3,7 +3,7 @@
 // keyboard shortcuts and nudges (issue 3: frequency 1/24 octave, gain 0.1 dB, Q 5 %, more with
 // Shift), file commands through the host, and a broken file refused with the reader's message.
 import { flushSync, mount, tick, unmount } from 'svelte';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import demoText from '../../assets/two-way-monitor.bqplan?raw';
 import hallText from '../../assets/three-way-hall.bqplan?raw';
 import type { HostResult, MenuCommand, PlanDocument } from '../../src/ipc';
@@ -52,6 +52,10 @@ class FakeHost implements Host {
     return r;
   }
   async discardRecovery() {}
+  settled: string[] = [];
+  async settleRecovery(choice: "restore" | "discard") {
+    this.settled.push(choice);
+  }
   async initialDocument() {
     return this.initial;
   }
@@ -134,6 +138,8 @@ describe('start-up', () => {
     expect(doc.plan.name).toBe('Recovered work');
     expect(doc.dirty).toBe(true);
     expect(target.querySelector('[data-testid="recovery"]')).toBeNull();
+    // Only now may the host delete its copy.
+    expect(host.settled).toEqual(['restore']);
   });
 });
 
@@ -203,6 +209,88 @@ describe('keyboard', () => {
     expect(doc.dirty).toBe(false);
     expect(doc.path).toBe('/plans/chosen.bqplan');
     expect(host.dirty.at(-1)?.[0]).toBe(false);
+  });
+});
+
+describe('autosave', () => {
+  it('continuous editing (a nudge every second) is still stored for recovery within the maximum interval', async () => {
+    vi.useFakeTimers({ toFake: ['setTimeout', 'clearTimeout', 'Date'] });
+    try {
+      await start();
+      view.select('input', 'b2');
+      flushSync();
+      for (let i = 0; i < 40; i++) {
+        key(i % 2 ? 'ArrowUp' : 'ArrowDown', { shiftKey: true });
+        vi.advanceTimersByTime(1000);
+        await tick();
+      }
+      expect(host.autosaved.length).toBeGreaterThanOrEqual(1);
+      expect(host.autosaved[0].plan.input.bands[1]).toBeDefined();
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+});
+
+describe('text typed but not applied', () => {
+  beforeEach(async () => {
+    await start();
+    view.select('input', 'b2'); // 63 Hz, -4.5 dB, Q 4
+    flushSync();
+  });
+
+  function typeOnly(testid: string, text: string): HTMLInputElement | HTMLTextAreaElement {
+    const el = target.querySelector<HTMLInputElement | HTMLTextAreaElement>(`[data-testid="${testid}"]`)!;
+    el.focus();
+    el.value = text;
+    el.dispatchEvent(new Event('input', { bubbles: true }));
+    flushSync();
+    return el;
+  }
+
+  function ctrlS(on: Element): void {
+    on.dispatchEvent(new KeyboardEvent('keydown', { key: 's', ctrlKey: true, bubbles: true }));
+    flushSync();
+  }
+
+  async function settle(): Promise<void> {
+    for (let i = 0; i < 5; i++) await tick();
+    flushSync();
+  }
+
+  it('a gain typed without Enter is in the plan Ctrl+S saves', async () => {
+    const gain = typeOnly('band-gain', '+2 dB');
+    // Counts as unsaved while typed: the close prompt would ask.
+    expect(host.dirty.at(-1)?.[0]).toBe(true);
+    ctrlS(gain);
+    await settle();
+    expect(host.saved).toHaveLength(1);
+    expect(host.saved[0].plan.input.bands[1].gainDb).toBe(2);
+    expect(doc.plan.input.bands[1].gainDb).toBe(2);
+    expect(view.notice?.text).toMatch(/^Saved /);
+    expect(host.dirty.at(-1)?.[0]).toBe(false);
+  });
+
+  it('notes typed and not yet left are saved with the plan, as one edit', async () => {
+    const notes = typeOnly('plan-notes', 'Measured at 1 m, invented scenario.');
+    ctrlS(notes);
+    await settle();
+    expect(host.saved[0].plan.notes).toBe('Measured at 1 m, invented scenario.');
+    // Leaving the field afterwards is not a second edit (the browser fires change again on blur).
+    const plan = doc.plan;
+    notes.dispatchEvent(new Event('change', { bubbles: true }));
+    expect(doc.plan).toBe(plan);
+    expect(doc.dirty).toBe(false);
+  });
+
+  it('text that is not a valid value refuses the save with the reason; nothing is saved', async () => {
+    const gain = typeOnly('band-gain', 'loud');
+    ctrlS(gain);
+    await settle();
+    expect(host.saved).toHaveLength(0);
+    expect(view.notice?.kind).toBe('error');
+    expect(view.notice?.text).toMatch(/^Not saved: Gain: .*not a gain.*press Escape/);
+    expect(target.querySelector('[data-testid="band-gain-error"]')).not.toBeNull();
   });
 });
 

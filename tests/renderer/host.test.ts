@@ -31,6 +31,7 @@ describe('createHost', () => {
       autosave: vi.fn(async () => {}),
       takeRecovery: vi.fn(async () => null),
       discardRecovery: vi.fn(async () => {}),
+      settleRecovery: vi.fn(async () => {}),
       initialDocument: vi.fn(async () => null),
       setDirty: vi.fn(),
       saveText: vi.fn(),

@@ -53,6 +53,7 @@ export function desktopHost(api: DesktopApi): Host {
     autosave: (doc) => api.autosave(doc),
     takeRecovery: () => api.takeRecovery(),
     discardRecovery: () => api.discardRecovery(),
+    settleRecovery: (choice) => api.settleRecovery(choice),
     initialDocument: () => api.initialDocument(),
     setDirty: (dirty, title, path) => api.setDirty(dirty, title, path),
     saveText: (name, text, ext) => api.saveText(name, text, ext),
@@ -164,6 +165,7 @@ export function browserHost(): Host {
     async discardRecovery() {
       storage()?.removeItem(RECOVERY_KEY);
     },
+    async settleRecovery() {},
     async initialDocument() {
       return null;
     },

@@ -14,6 +14,7 @@ import type { Host } from '../host/host';
 import { BAND_TYPE_LABEL } from './labels';
 import { diagnosticText } from './diagnostics';
 import { documentState as doc } from '../state/document.svelte';
+import { pendingEdits } from './pending.svelte';
 import { viewState as view } from '../state/view.svelte';
 
 /** Applies an edit result; a refusal becomes the notice. Returns true when applied. */
@@ -189,6 +190,12 @@ export async function openPlan(): Promise<void> {
 
 export async function savePlan(as = false): Promise<boolean> {
   const h = getHost();
+  // Text typed but not yet applied goes into the plan first; a save without it would say "saved".
+  const refusal = pendingEdits.commit();
+  if (refusal !== null) {
+    view.notify('error', `Not saved: ${refusal}. Correct the entry, or press Escape in it to drop it, then save again.`, 15000);
+    return false;
+  }
   const plan = doc.plan;
   const r = as || !doc.path ? await h.savePlanAs(plan, doc.path) : await h.savePlan(plan, doc.path);
   if (r.ok) {
@@ -201,10 +208,11 @@ export async function savePlan(as = false): Promise<boolean> {
   return false;
 }
 
-export async function revertPlan(): Promise<void> {
+/** Re-reads the saved file. `ask: false` when the user already chose to (main's changed-on-disk question). */
+export async function revertPlan(opts: { ask?: boolean } = {}): Promise<void> {
   const path = doc.path;
   if (!path) return view.notify('info', 'This plan has never been saved; nothing to revert to.');
-  if (doc.dirty && typeof window.confirm === 'function' && !window.confirm(`Discard the changes since ${doc.fileName} was saved?`)) return;
+  if (opts.ask !== false && doc.dirty && typeof window.confirm === 'function' && !window.confirm(`Discard the changes since ${doc.fileName} was saved?`)) return;
   const r = await getHost().revertPlan(path);
   if (r.ok) {
     loadDocument(r.value);
