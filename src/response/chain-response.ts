@@ -1,6 +1,13 @@
 /**
  * Responses of designed outputs and of their complex (acoustic) sum, on any frequency list.
  *
+ * Two layers. The complex core (`chainComplexResponse`, `multiplyComplexInto`, `sumComplex`)
+ * carries H = Re H + j Im H (with a power-of-two scale for deep stop bands), the group delay and
+ * the log-magnitude slope in caller-owned `ComplexResponse` arrays: a sum is a complex add, a
+ * measured response multiplies in. The presentation step (`presentCurves` and the wrappers
+ * `cascadeWithGainDelay`, `outputResponse`, `sumResponses`, `designedResponse`) turns them into
+ * dB, wrapped and unwrapped phase and group delay in ms, in new arrays.
+ *
  * An output is its cascade times its linear gain (polarity included) times a pure delay of
  * D samples, e^{-j w D}: the delay adds D to the group delay and -w D to the phase, unrounded.
  *
@@ -10,12 +17,15 @@
 import type { Section } from '../design/section';
 import { packSections } from '../design/section';
 import type { DesignedOutput } from '../design/chain';
-import { allocateKernelOutput, cascadeResponse, normalizedOmega } from './kernel';
+import { allocateComplexResponse, cascadeComplex, complexScaleFactor, normalizedOmega, presentMagnitudePhase, type ComplexResponse } from './kernel';
+
+export type { ComplexResponse } from './kernel';
 
 /** Magnitude below which phase and group delay carry no information (the CLI writes null). */
 export const MAGNITUDE_FLOOR_DB = -200;
 
-export interface Response {
+/** A response presented for plots, tables and the command line (new arrays, one value per point). */
+export interface ResponseCurves {
   /** 20 log10 |H|. */
   magnitudeDb: Float64Array;
   /** Wrapped to (-pi, pi]. */
@@ -36,8 +46,22 @@ export interface Response {
    * 0 (a notch at its own frequency, a high-pass at 0 Hz), where d ln H / dw does not exist;
    * absent when there is no such point. A sum adds it there.
    */
-  derivativeAtZero?: { re: Float64Array; im: Float64Array };
+  derivativeAtZero?: DerivativeAtZero;
+  /** The complex response these curves present (gain, polarity and delay included). */
+  complex: ComplexResponse;
 }
+
+/** dH/dw where H is exactly 0 (0 elsewhere). */
+export interface DerivativeAtZero {
+  re: Float64Array;
+  im: Float64Array;
+}
+
+/**
+ * The former name of `ResponseCurves`, kept for callers written against it.
+ * @deprecated use `ResponseCurves` (the name does not collide with the DOM's `Response`).
+ */
+export type Response = ResponseCurves;
 
 /** Wraps an angle to (-pi, pi]. */
 export function wrapPi(x: number): number {
@@ -59,9 +83,154 @@ export function unwrapInto(wrapped: Float64Array, out: Float64Array): void {
   }
 }
 
+// ---- the complex core -------------------------------------------------------------------------
+
+/**
+ * The complex response of a chain into the caller's `out`: the packed cascade times the linear
+ * `gain` (polarity included) times the delay e^{-j w D}, D = `delaySamples`; group delay + D.
+ * The entry point for anything that multiplies further responses in (`multiplyComplexInto`).
+ */
+export function chainComplexResponse(
+  packed: Float64Array,
+  sectionCount: number,
+  gain: number,
+  delaySamples: number,
+  omega: Float64Array,
+  out: ComplexResponse,
+): void {
+  cascadeComplex(packed, sectionCount, omega, out);
+  applyGainDelay(out, gain, delaySamples, omega, out);
+}
+
+/** `into` = `from` times gain e^{-j w D} (from and into may be the same). */
+function applyGainDelay(from: ComplexResponse, gain: number, delaySamples: number, omega: Float64Array, into: ComplexResponse): void {
+  const n = omega.length;
+  for (let i = 0; i < n; i++) {
+    const r = from.re[i];
+    const m = from.im[i];
+    if (delaySamples === 0) {
+      into.re[i] = gain * r;
+      into.im[i] = gain * m;
+    } else {
+      const wd = omega[i] * delaySamples;
+      const c = Math.cos(wd);
+      const sn = Math.sin(wd);
+      into.re[i] = gain * (r * c + m * sn);
+      into.im[i] = gain * (m * c - r * sn);
+    }
+    into.log2Scale[i] = from.log2Scale[i];
+    into.groupDelaySamples[i] = from.groupDelaySamples[i] + delaySamples;
+    into.logSlope[i] = from.logSlope[i];
+  }
+}
+
+/**
+ * `into` = `into` times `by`, point by point: H multiplies, and since d ln(AB) = d ln A + d ln B
+ * the group delays and the log-magnitude slopes add. For a measured response (brought to the
+ * same frequency list) multiplied into a chain.
+ */
+export function multiplyComplexInto(into: ComplexResponse, by: ComplexResponse, points = into.re.length): void {
+  for (let i = 0; i < points; i++) {
+    const r = into.re[i] * by.re[i] - into.im[i] * by.im[i];
+    into.im[i] = into.re[i] * by.im[i] + into.im[i] * by.re[i];
+    into.re[i] = r;
+    into.log2Scale[i] += by.log2Scale[i];
+    into.groupDelaySamples[i] += by.groupDelaySamples[i];
+    into.logSlope[i] += by.logSlope[i];
+  }
+}
+
+/** One part of a sum: its complex response and, where it is exactly 0, its derivative. */
+export interface SumPart {
+  complex: ComplexResponse;
+  derivativeAtZero?: DerivativeAtZero;
+}
+
+/**
+ * The complex sum of `parts` into `out` (a complex add, with the parts' power-of-two scales
+ * aligned), and its exact group delay and slope from S' = sum_k H_k (slope_k - j tau_k).
+ * An empty sum is 0 (group delay NaN).
+ */
+export function sumComplex(parts: readonly SumPart[], points: number, out: ComplexResponse): void {
+  for (let i = 0; i < points; i++) {
+    // The largest scale among the nonzero parts (0 unless some part is beyond 1e+/-150).
+    let top = -Infinity;
+    let anyScaled = false;
+    for (const p of parts) {
+      const c = p.complex;
+      if (c.log2Scale[i] !== 0) anyScaled = true;
+      if ((c.re[i] !== 0 || c.im[i] !== 0) && c.log2Scale[i] > top) top = c.log2Scale[i];
+    }
+    if (!anyScaled || top === -Infinity) top = 0;
+    let sr = 0;
+    let si = 0;
+    let dr = 0;
+    let di = 0;
+    for (const p of parts) {
+      const c = p.complex;
+      const f = anyScaled ? complexScaleFactor(c.log2Scale[i] - top) : 1;
+      const hr = c.re[i] * f;
+      const hi = c.im[i] * f;
+      if (c.re[i] === 0 && c.im[i] === 0) {
+        // An exact zero adds nothing to the sum but still its derivative.
+        if (p.derivativeAtZero) {
+          const g = anyScaled ? complexScaleFactor(-top) : 1;
+          dr += p.derivativeAtZero.re[i] * g;
+          di += p.derivativeAtZero.im[i] * g;
+        }
+        continue;
+      }
+      sr += hr;
+      si += hi;
+      // d(c H)/dw = c H (slope - j tau), tau in samples including the delay (a part far below
+      // the magnitude floor still adds its derivative, as it adds its value).
+      const tau = c.groupDelaySamples[i];
+      const a = c.logSlope[i];
+      if (!Number.isFinite(tau)) continue;
+      dr += hr * a + hi * tau;
+      di += hi * a - hr * tau;
+    }
+    const s2 = sr * sr + si * si;
+    out.re[i] = sr;
+    out.im[i] = si;
+    out.log2Scale[i] = top;
+    // S'/S = (dr + j di)(sr - j si) / |S|^2; tau = -Im(S'/S), slope = Re(S'/S).
+    out.groupDelaySamples[i] = -(di * sr - dr * si) / s2;
+    out.logSlope[i] = (dr * sr + di * si) / s2;
+  }
+}
+
+// ---- presentation -----------------------------------------------------------------------------
+
+/** Curves of a complex response: dB, wrapped and unwrapped phase, group delay in ms. */
+export function presentCurves(c: ComplexResponse, sampleRateHz: number, points = c.re.length): ResponseCurves {
+  const magnitudeDb = new Float64Array(points);
+  const phaseRad = new Float64Array(points);
+  const groupDelayMs = new Float64Array(points);
+  const msPerSample = 1000 / sampleRateHz;
+  presentMagnitudePhase(c, magnitudeDb, phaseRad, 0, points);
+  for (let i = 0; i < points; i++) {
+    phaseRad[i] = wrapPi(phaseRad[i]);
+    groupDelayMs[i] = magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : c.groupDelaySamples[i] * msPerSample;
+  }
+  const phaseUnwrappedRad = new Float64Array(points);
+  unwrapInto(phaseRad, phaseUnwrappedRad);
+  return {
+    magnitudeDb,
+    phaseRad,
+    phaseUnwrappedRad,
+    groupDelayMs,
+    logSlope: c.logSlope.slice(0, points),
+    groupDelaySamples: c.groupDelaySamples.slice(0, points),
+    complex: c,
+  };
+}
+
 /**
  * The response of a cascade with a linear gain and a delay of `delaySamples` at sample rate fs.
- * `omega` is 2 pi f / fs for each frequency (see `normalizedOmega`).
+ * `omega` is 2 pi f / fs for each frequency (see `normalizedOmega`). The magnitude is the
+ * cascade's plus the gain's dB, the phase the cascade's (plus pi for a negative gain) unwrapped
+ * before the delay's -w D is added exactly.
  */
 export function cascadeWithGainDelay(
   sections: readonly Section[],
@@ -69,30 +238,34 @@ export function cascadeWithGainDelay(
   delaySamples: number,
   omega: Float64Array,
   sampleRateHz: number,
-): Response {
+): ResponseCurves {
   const n = omega.length;
-  const k = allocateKernelOutput(n);
-  cascadeResponse(packSections(sections), sections.length, omega, k);
+  const filter = allocateComplexResponse(n);
+  cascadeComplex(packSections(sections), sections.length, omega, filter);
+  const magnitudeDb = new Float64Array(n);
+  const filterPhase = new Float64Array(n);
+  presentMagnitudePhase(filter, magnitudeDb, filterPhase);
   const gainDb = 20 * Math.log10(Math.abs(gain));
   const flip = gain < 0 ? Math.PI : 0;
-  const filterPhase = new Float64Array(n);
   const phaseRad = new Float64Array(n);
   const groupDelayMs = new Float64Array(n);
   const groupDelaySamples = new Float64Array(n);
   const msPerSample = 1000 / sampleRateHz;
   for (let i = 0; i < n; i++) {
-    k.magnitudeDb[i] += gainDb; // -Infinity for a gain of 0
-    filterPhase[i] = wrapPi(k.phaseRad[i] + flip);
+    magnitudeDb[i] += gainDb; // -Infinity for a gain of 0
+    filterPhase[i] = wrapPi(filterPhase[i] + flip);
     phaseRad[i] = wrapPi(filterPhase[i] - omega[i] * delaySamples);
-    groupDelaySamples[i] = k.groupDelaySamples[i] + delaySamples;
-    groupDelayMs[i] = k.magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : groupDelaySamples[i] * msPerSample;
+    groupDelaySamples[i] = filter.groupDelaySamples[i] + delaySamples;
+    groupDelayMs[i] = magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : groupDelaySamples[i] * msPerSample;
   }
   const phaseUnwrappedRad = new Float64Array(n);
   unwrapInto(filterPhase, phaseUnwrappedRad);
   for (let i = 0; i < n; i++) phaseUnwrappedRad[i] -= omega[i] * delaySamples;
-  const r: Response = { magnitudeDb: k.magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope: k.logSlope, groupDelaySamples };
+  const complex = allocateComplexResponse(n);
+  applyGainDelay(filter, gain, delaySamples, omega, complex);
+  const r: ResponseCurves = { magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope: filter.logSlope, groupDelaySamples, complex };
   for (let i = 0; i < n; i++) {
-    if (k.magnitudeDb[i] !== -Infinity || gain === 0) continue;
+    if (magnitudeDb[i] !== -Infinity || gain === 0) continue;
     r.derivativeAtZero ??= { re: new Float64Array(n), im: new Float64Array(n) };
     const [dr, di] = cascadeDerivative(sections, omega[i]);
     // d/dw (g H e^{-j w D}) = g H' e^{-j w D} where H = 0.
@@ -151,67 +324,24 @@ function cascadeDerivative(sections: readonly Section[], w: number): [number, nu
   return [qr, qi];
 }
 
-export function outputResponse(out: DesignedOutput, omega: Float64Array, sampleRateHz: number): Response {
+export function outputResponse(out: DesignedOutput, omega: Float64Array, sampleRateHz: number): ResponseCurves {
   return cascadeWithGainDelay(out.sections, out.gain, out.delaySamplesExact, omega, sampleRateHz);
 }
 
 /**
  * The complex sum of responses (all already including gain, polarity and delay), with its exact
- * group delay. Returns a response of -Infinity dB everywhere when `parts` is empty.
+ * group delay, presented. Returns a response of -Infinity dB everywhere when `parts` is empty.
  */
-export function sumResponses(parts: readonly Response[], omega: Float64Array, sampleRateHz: number): Response {
-  const n = omega.length;
-  const magnitudeDb = new Float64Array(n);
-  const phaseRad = new Float64Array(n);
-  const groupDelayMs = new Float64Array(n);
-  const logSlope = new Float64Array(n);
-  const groupDelaySamples = new Float64Array(n);
-  const msPerSample = 1000 / sampleRateHz;
-  for (let i = 0; i < n; i++) {
-    let sr = 0;
-    let si = 0;
-    let dr = 0;
-    let di = 0;
-    for (const p of parts) {
-      const m = Math.pow(10, p.magnitudeDb[i] / 20);
-      if (m === 0) {
-        // An exact zero adds nothing to the sum but still its derivative.
-        if (p.derivativeAtZero) {
-          dr += p.derivativeAtZero.re[i];
-          di += p.derivativeAtZero.im[i];
-        }
-        continue;
-      }
-      const hr = m * Math.cos(p.phaseRad[i]);
-      const hi = m * Math.sin(p.phaseRad[i]);
-      sr += hr;
-      si += hi;
-      // d(c H)/dw = c H (slope - j tau), tau in samples including the delay (unmasked: a part
-      // below the magnitude floor still adds its derivative, as it adds its value).
-      const tauSamples = p.groupDelaySamples[i];
-      const a = p.logSlope[i];
-      if (!Number.isFinite(tauSamples)) continue;
-      dr += hr * a + hi * tauSamples;
-      di += hi * a - hr * tauSamples;
-    }
-    const s2 = sr * sr + si * si;
-    magnitudeDb[i] = 10 * Math.log10(s2);
-    phaseRad[i] = wrapPi(Math.atan2(si, sr));
-    // S'/S = (dr + j di)(sr - j si) / |S|^2; tau = -Im(S'/S), slope = Re(S'/S).
-    const tau = -(di * sr - dr * si) / s2;
-    logSlope[i] = (dr * sr + di * si) / s2;
-    groupDelaySamples[i] = tau;
-    groupDelayMs[i] = magnitudeDb[i] < MAGNITUDE_FLOOR_DB ? NaN : tau * msPerSample;
-  }
-  const phaseUnwrappedRad = new Float64Array(n);
-  unwrapInto(phaseRad, phaseUnwrappedRad);
-  return { magnitudeDb, phaseRad, phaseUnwrappedRad, groupDelayMs, logSlope, groupDelaySamples };
+export function sumResponses(parts: readonly ResponseCurves[], omega: Float64Array, sampleRateHz: number): ResponseCurves {
+  const sum = allocateComplexResponse(omega.length);
+  sumComplex(parts, omega.length, sum);
+  return presentCurves(sum, sampleRateHz);
 }
 
 export interface PlanResponse {
   frequenciesHz: Float64Array;
-  outputs: { id: string; mute: boolean; response: Response }[];
-  sum: Response;
+  outputs: { id: string; mute: boolean; response: ResponseCurves }[];
+  sum: ResponseCurves;
 }
 
 /** Every output's response (muted ones too, flagged) and the sum of the unmuted ones. */

@@ -1,28 +1,67 @@
 /**
- * The response kernel: a cascade of sections evaluated on the unit circle, z = e^{jw}.
+ * The response kernel: a cascade of sections evaluated on the unit circle, z = e^{jw}, as complex
+ * numbers in arrays the caller owns.
  *
- * For each section N(z) = b0 + b1 z^-1 + b2 z^-2 and D(z) = 1 + a1 z^-1 + a2 z^-2. With
- * N'(z) = b1 z^-1 + 2 b2 z^-2 (and D' likewise), d ln N / dw = -j N'/N, so for the cascade
+ * Output per point (`ComplexResponse`): H = (re + j im) 2^log2Scale, the group delay
+ * tau = -d(arg H)/dw in samples and the slope of the log magnitude d ln|H| / dw. Both derivatives
+ * are exact (no finite differences, J. O. Smith, "Numerical Computation of Group Delay"): the slope
+ * is what the sum of outputs needs for its own exact group delay. dB, phase and unwrapping are a
+ * presentation step on top (`presentMagnitudePhase`, and chain-response.ts).
  *
- *     d ln H / dw = -j Q,   Q = sum over sections of (N'/N - D'/D),
+ * Per section, with t the frequency moved next to z = 1 (see "Accurate evaluation" below),
+ * N(e^{jt}) = e^{-jt} F(t) with F(t) = b1 + b0 e^{jt} + b2 e^{-jt}, real and imaginary parts
  *
- * the group delay is tau = -d(arg H)/dw = Re Q (samples; J. O. Smith, "Numerical Computation of
- * Group Delay") and the slope of the log magnitude is d ln|H| / dw = Im Q. Both are exact: no
- * finite differences. The slope is what the sum of outputs needs for its own exact group delay.
+ *     F  = (b0 + b1 + b2) - (b0 + b2) u  +  j (b0 - b2) sin t          (u = 1 - cos t)
+ *     F' = dF/dt = -(b0 + b2) sin t  +  j (b0 - b2) cos t
  *
- * The loop runs over points, then sections, on a packed Float64Array, allocating nothing per
- * point; the complex product is kept as one running value and rescaled when it leaves
- * [1e-200, 1e200], so deep stop bands of long cascades neither underflow nor overflow.
+ * and D(e^{jt}) = e^{-jt} G(t) likewise with (1, a1, a2). The factors e^{-jt} cancel in N / D, so
+ * H = prod F_k / prod G_k. The kernel carries the two products and their derivatives as dual
+ * numbers, P <- P F, P' <- P' F + P F' (the product rule: no division per section), and at the end
+ * of each point divides once:
  *
- * `cascadeResponse` runs the section loop in WebAssembly SIMD (kernel.wat, two points per
- * instruction) where the host allows it, and in plain JavaScript (`cascadeResponseJs`) otherwise,
- * for instance under a Content-Security-Policy without 'wasm-unsafe-eval'. Both compute the same
- * expressions; the tests hold them to each other and to scipy.
+ *     H = PF / PG,   d ln H / dt = PF'/PF - PG'/PG,   tau = -Im d ln H/dt,  slope = Re d ln H/dt.
+ *
+ * The products are rescaled by exact powers of two when they leave [1e-50, 1e50] in magnitude
+ * (checked every 4 sections), so deep stop bands of long cascades neither underflow nor overflow;
+ * the count of rescalings becomes `log2Scale`, which is 0 unless |H| is beyond 1e-150 .. 1e150
+ * (-3000 .. 3000 dB).
+ *
+ * `cascadeComplex` runs the section loop in WebAssembly SIMD (kernel.wat, two points per
+ * instruction) where the host allows it, and in plain JavaScript (`cascadeComplexJs`) otherwise,
+ * for instance under a Content-Security-Policy without 'wasm-unsafe-eval'. Both evaluate the same
+ * expressions in the same order in IEEE double arithmetic, so their results are bit for bit equal
+ * (the tests hold them to that).
  */
 import { SECTION_STRIDE } from '../design/section';
 import { KERNEL_WASM_HEX } from './kernel-wasm-bytes';
 
-/** Caller-provided result arrays, one value per point. */
+/**
+ * A complex response in caller-owned arrays, one value per point. Not the DOM's `Response`.
+ * H = (re + j im) 2^log2Scale; log2Scale is 0 wherever |H| is inside 1e-150 .. 1e150, so most
+ * callers can read re and im as they are (`complexScaleFactor` folds the rest).
+ */
+export interface ComplexResponse {
+  re: Float64Array;
+  im: Float64Array;
+  /** Power of two the (re, im) pair is to be multiplied by; an integer, usually 0. */
+  log2Scale: Float64Array;
+  /** -d(arg H)/dw in samples; NaN where H is exactly 0 (it is undefined there). */
+  groupDelaySamples: Float64Array;
+  /** d ln|H| / dw, per radian per sample; NaN where H is exactly 0. */
+  logSlope: Float64Array;
+}
+
+export function allocateComplexResponse(points: number): ComplexResponse {
+  return {
+    re: new Float64Array(points),
+    im: new Float64Array(points),
+    log2Scale: new Float64Array(points),
+    groupDelaySamples: new Float64Array(points),
+    logSlope: new Float64Array(points),
+  };
+}
+
+/** Magnitude and phase of a cascade alone (the presentation of a `ComplexResponse`). */
 export interface KernelOutput {
   /** 20 log10 |H|; -Infinity at an exact zero. */
   magnitudeDb: Float64Array;
@@ -44,18 +83,65 @@ export function allocateKernelOutput(points: number): KernelOutput {
 }
 
 const DB_PER_NEPER_SQUARED = 10 / Math.LN10; // 10 log10(x) = DB_PER_NEPER_SQUARED * ln(x)
-const RESCALE_LOW = 1e-200;
-const RESCALE_HIGH = 1e200;
+/** dB per unit of log2Scale: 20 log10(2). */
+export const DB_PER_LOG2 = 20 * Math.log10(2);
+
+/** 2^log2Scale (Infinity or 0 where that leaves the double range). */
+export function complexScaleFactor(log2Scale: number): number {
+  return log2Scale === 0 ? 1 : Math.pow(2, log2Scale);
+}
+
+/**
+ * 20 log10 |H| and arg H of points [from, to) of `c`: the one place where the complex core turns
+ * into decibels and radians. Writes into the caller's arrays.
+ */
+export function presentMagnitudePhase(c: ComplexResponse, magnitudeDb: Float64Array, phaseRad: Float64Array, from = 0, to = c.re.length): void {
+  const { re, im, log2Scale } = c;
+  for (let i = from; i < to; i++) {
+    const r = re[i];
+    const m = im[i];
+    magnitudeDb[i] = DB_PER_NEPER_SQUARED * Math.log(r * r + m * m) + DB_PER_LOG2 * log2Scale[i];
+    phaseRad[i] = Math.atan2(m, r);
+  }
+}
 
 /**
  * Evaluates `sectionCount` packed sections ([b0, b1, b2, a1, a2] each) at the normalized angular
- * frequencies `omega` (radians per sample, w = 2 pi f / fs) and writes into `out`.
+ * frequencies `omega` (radians per sample, w = 2 pi f / fs) and writes H, its group delay and its
+ * log-magnitude slope into `out` (arrays of at least omega.length). Allocates nothing once its
+ * scratch has grown to the largest size asked for.
  */
-export function cascadeResponse(packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
+export function cascadeComplex(packed: Float64Array, sectionCount: number, omega: Float64Array, out: ComplexResponse): void {
   // Below a few dozen points the copy in and out of WebAssembly memory costs more than it saves.
   const wasm = omega.length >= WASM_MIN_POINTS ? wasmKernel() : null;
-  if (wasm) cascadeResponseWasm(wasm, packed, sectionCount, omega, out);
-  else cascadeResponseJs(packed, sectionCount, omega, out);
+  if (wasm) cascadeComplexWasm(wasm, packed, sectionCount, omega, out);
+  else cascadeComplexJs(packed, sectionCount, omega, out);
+}
+
+let presentScratch = allocateComplexResponse(0);
+function scratchFor(points: number): ComplexResponse {
+  if (presentScratch.re.length < points) presentScratch = allocateComplexResponse(points);
+  return presentScratch;
+}
+
+/** `cascadeComplex`, presented as dB and phase (group delay and slope as they are). */
+export function cascadeResponse(packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
+  const c = scratchFor(omega.length);
+  cascadeComplex(packed, sectionCount, omega, c);
+  copyPresented(c, omega.length, out);
+}
+
+/** The same through the JavaScript kernel only (tests compare the two paths). */
+export function cascadeResponseJs(packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
+  const c = scratchFor(omega.length);
+  cascadeComplexJs(packed, sectionCount, omega, c);
+  copyPresented(c, omega.length, out);
+}
+
+function copyPresented(c: ComplexResponse, n: number, out: KernelOutput): void {
+  presentMagnitudePhase(c, out.magnitudeDb, out.phaseRad, 0, n);
+  out.groupDelaySamples.set(c.groupDelaySamples.subarray(0, n));
+  out.logSlope.set(c.logSlope.subarray(0, n));
 }
 
 /**
@@ -63,30 +149,24 @@ export function cascadeResponse(packed: Float64Array, sectionCount: number, omeg
  * near a zero close to z = 1 (a high-pass at low frequency, a notch) or z = -1 (a low-pass near
  * Nyquist), and the rounding of cos w (1e-16) becomes a large relative error there. So each section
  * is evaluated around the nearer of the two points, with t = w (|w| <= pi/2) or t = w -/+ pi
- * (the section with b1 and a1 negated: H(e^{jw}) = H~(e^{jt}) exactly), and small quantities
- * computed directly: u = 1 - cos t = 2 sin^2(t/2), v = 1 - cos 2t = 2 sin^2 t. Then
- *
- *   Re N  = (b0 + b1 + b2) - b1 u - b2 v          Im N  = -sin t (b1 + 2 b2 - 2 b2 u)
- *   Re N' = Re N - (b0 - b2) - b2 v               Im N' = Im N - b2 sin 2t
- *
- * (D, D' likewise with 1, a1, a2), where b0 + b1 + b2 is summed with error-free transformations,
- * so N(1) is exact to rounding when the coefficients put a zero at z = 1.
- * Constants per section and side (the "+" set for |w| <= pi/2, the "-" set with b1, a1 negated):
- * b1, b2, b0 + b1 + b2, b1 + 2 b2, b0 - b2, and the same for 1, a1, a2.
+ * (the section with b1 and a1 negated: H(e^{jw}) = H~(e^{jt}) exactly), and the small quantity
+ * u = 1 - cos t = 2 sin^2(t/2) computed directly. In F above only b0 + b1 + b2 depends on the side;
+ * it is summed with error-free transformations, so F(0) is exact to rounding when the coefficients
+ * put a zero at z = 1.
+ * Constants per section and side (the "+" set for |w| <= pi/2, the "-" set with b1, a1 negated),
+ * K_STRIDE numbers: b0 + b1 + b2, b0 + b2, b0 - b2, then 1 + a1 + a2, 1 + a2, 1 - a2.
  */
-const K_B1 = 0;
-const K_B2 = 1;
-const K_N1 = 2;
-const K_P = 3;
-const K_C = 4;
-const K_A1 = 5;
-const K_A2 = 6;
-const K_D1 = 7;
-const K_Q = 8;
-const K_CD = 9;
-/** Numbers per section in an expanded set. */
-export const EXPANDED_STRIDE = 10;
+/** Numbers per section in an expanded constant set. */
+export const K_STRIDE = 6;
 const HALF_PI = Math.PI / 2;
+/** |P|^2 outside [RESCALE_LOW, RESCALE_HIGH] is rescaled by 2^-/+RESCALE_BITS (|P|^2 by 2^-/+(2 RESCALE_BITS) = 1e-/+100). */
+const RESCALE_LOW = 1e-100;
+const RESCALE_HIGH = 1e100;
+const RESCALE_BITS = 166;
+const RESCALE_UP = Math.pow(2, RESCALE_BITS);
+const RESCALE_DOWN = Math.pow(2, -RESCALE_BITS);
+/** |H| beyond 2^+/-FOLD_BITS (about 1e+/-150) keeps a nonzero log2Scale; inside it is folded into re, im. */
+const FOLD_BITS = 498;
 
 /** a + b + c with the rounding errors of both additions added back (TwoSum, Knuth). */
 function sum3(a: number, b: number, c: number): number {
@@ -100,32 +180,43 @@ function sum3(a: number, b: number, c: number): number {
 }
 
 /**
- * Expands packed sections into the kernel's two constant sets, "+" then "-", each
- * EXPANDED_STRIDE numbers per section, every number written `lanes` times in a row.
+ * Expands packed sections into the kernel's two constant sets, "+" then "-", each K_STRIDE
+ * numbers per section, every number written `lanes` times in a row.
  */
 export function expandSections(packed: Float64Array, sectionCount: number, into: Float64Array, offset = 0, lanes = 1): void {
-  const setSize = sectionCount * EXPANDED_STRIDE * lanes;
-  for (let side = 0; side < 2; side++) {
-    const sign = side === 0 ? 1 : -1;
-    for (let k = 0; k < sectionCount; k++) {
-      const o = k * SECTION_STRIDE;
-      const b0 = packed[o];
-      const b1 = sign * packed[o + 1];
-      const b2 = packed[o + 2];
-      const a1 = sign * packed[o + 3];
-      const a2 = packed[o + 4];
-      const values = [b1, b2, sum3(b0, b1, b2), b1 + 2 * b2, b0 - b2, a1, a2, sum3(1, a1, a2), a1 + 2 * a2, 1 - a2];
-      const base = offset + side * setSize + k * EXPANDED_STRIDE * lanes;
-      for (let j = 0; j < EXPANDED_STRIDE; j++) for (let l = 0; l < lanes; l++) into[base + j * lanes + l] = values[j];
+  const setSize = sectionCount * K_STRIDE * lanes;
+  for (let k = 0; k < sectionCount; k++) {
+    const o = k * SECTION_STRIDE;
+    const b0 = packed[o];
+    const b1 = packed[o + 1];
+    const b2 = packed[o + 2];
+    const a1 = packed[o + 3];
+    const a2 = packed[o + 4];
+    const c = b0 + b2;
+    const d = b0 - b2;
+    const cd = 1 + a2;
+    const dd = 1 - a2;
+    const sp = sum3(b0, b1, b2);
+    const sm = sum3(b0, -b1, b2);
+    const qp = sum3(1, a1, a2);
+    const qm = sum3(1, -a1, a2);
+    for (let side = 0; side < 2; side++) {
+      const base = offset + side * setSize + k * K_STRIDE * lanes;
+      for (let l = 0; l < lanes; l++) {
+        into[base + l] = side === 0 ? sp : sm;
+        into[base + lanes + l] = c;
+        into[base + 2 * lanes + l] = d;
+        into[base + 3 * lanes + l] = side === 0 ? qp : qm;
+        into[base + 4 * lanes + l] = cd;
+        into[base + 5 * lanes + l] = dd;
+      }
     }
   }
 }
 
 /**
  * w moved to t in [-pi/2, pi/2]: t = w, or t = w -/+ pi on the "-" side (returned with 4 added, so
- * one number carries both: `mirrored = r > 2`, t = mirrored ? r - 4 : r). Then the per-point inputs:
- * h = sin(t/2), s = sin t = 2 h cos(t/2) = 2 h sqrt(1 - h^2) (no cancellation for |t/2| <= pi/4),
- * u = 2 h^2, v = 2 s^2: one sine per point.
+ * one number carries both: `mirrored = r > 2`, t = mirrored ? r - 4 : r).
  */
 function reduce(w: number): number {
   let r = w;
@@ -135,12 +226,39 @@ function reduce(w: number): number {
   return r;
 }
 
-let jsScratch = new Float64Array(0);
+/**
+ * The per-point inputs of t (from `reduce`): h = sin(t/2), sin t = 2 h cos(t/2) = 2 h sqrt(1 - h^2)
+ * (no cancellation for |t/2| <= pi/4), u = 2 h^2 and cos t = 1 - u: one sine per point. Written to
+ * into[at], into[at + stride], into[at + 2 stride] as u, sin t, cos t.
+ */
+function pointInputs(t: number, into: Float64Array, at: number, stride: number): void {
+  const h = Math.sin(t / 2);
+  const u = 2 * h * h;
+  into[at] = u;
+  into[at + stride] = 2 * h * Math.sqrt(1 - h * h);
+  into[at + 2 * stride] = 1 - u;
+}
 
-/** The plain JavaScript kernel (the reference the WebAssembly one is tested against). */
-export function cascadeResponseJs(packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
-  const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
-  const setSize = sectionCount * EXPANDED_STRIDE;
+/** Folds 2^log2Scale into (re, im) where the result stays inside 2^-FOLD_BITS .. 2^FOLD_BITS. */
+function foldScale(out: ComplexResponse, i: number): void {
+  const e = out.log2Scale[i];
+  if (e === 0) return;
+  const r = out.re[i];
+  const m = out.im[i];
+  const l = 0.5 * Math.log2(r * r + m * m) + e;
+  if (!(l > -FOLD_BITS && l < FOLD_BITS)) return;
+  const half = Math.pow(2, e / 2); // exact: e is a multiple of 2 RESCALE_BITS / 2
+  out.re[i] = r * half * half;
+  out.im[i] = m * half * half;
+  out.log2Scale[i] = 0;
+}
+
+let jsScratch = new Float64Array(0);
+const jsPoint = new Float64Array(3);
+
+/** The plain JavaScript kernel: the WebAssembly loop's arithmetic in the same order, one point at a time. */
+export function cascadeComplexJs(packed: Float64Array, sectionCount: number, omega: Float64Array, out: ComplexResponse): void {
+  const setSize = sectionCount * K_STRIDE;
   if (jsScratch.length < 2 * setSize) jsScratch = new Float64Array(2 * setSize);
   const K = jsScratch;
   expandSections(packed, sectionCount, K);
@@ -148,54 +266,110 @@ export function cascadeResponseJs(packed: Float64Array, sectionCount: number, om
   for (let i = 0; i < points; i++) {
     const r = reduce(omega[i]);
     const mirrored = r > 2;
-    const h = Math.sin((mirrored ? r - 4 : r) / 2);
-    const s = 2 * h * Math.sqrt(1 - h * h);
-    const u = 2 * h * h;
-    const v = 2 * s * s;
-    const s2 = 2 * s * (1 - u); // sin 2t
-    let hr = 1;
-    let hi = 0;
-    let logScale = 0; // ln of the factor taken out of (hr, hi) by rescaling, in ln(|H|^2) units
-    let tau = 0;
-    let slope = 0;
-    for (let k = 0, o = mirrored ? setSize : 0; k < sectionCount; k++, o += EXPANDED_STRIDE) {
-      const b1u = K[o + K_B1] * u;
-      const b2u = K[o + K_B2] * u;
-      const b2v = K[o + K_B2] * v;
-      const a1u = K[o + K_A1] * u;
-      const a2u = K[o + K_A2] * u;
-      const a2v = K[o + K_A2] * v;
-      const nr = K[o + K_N1] - b1u - b2v;
-      const ni = -s * (K[o + K_P] - 2 * b2u);
-      const npr = nr - K[o + K_C] - b2v;
-      const npi = ni - K[o + K_B2] * s2;
-      const dr = K[o + K_D1] - a1u - a2v;
-      const di = -s * (K[o + K_Q] - 2 * a2u);
-      const dpr = dr - K[o + K_CD] - a2v;
-      const dpi = di - K[o + K_A2] * s2;
-      const inn = 1 / (nr * nr + ni * ni);
-      const idd = 1 / (dr * dr + di * di);
-      tau += (npr * nr + npi * ni) * inn - (dpr * dr + dpi * di) * idd;
-      slope += (npi * nr - npr * ni) * inn - (dpi * dr - dpr * di) * idd;
-      // H *= N conj(D) / |D|^2
-      const tr = (nr * dr + ni * di) * idd;
-      const ti = (ni * dr - nr * di) * idd;
-      const hn = hr * tr - hi * ti;
-      hi = hr * ti + hi * tr;
-      hr = hn;
-      const m2 = hr * hr + hi * hi;
-      if ((m2 < RESCALE_LOW || m2 > RESCALE_HIGH) && m2 > 0 && m2 < Infinity) {
-        const inv = 1 / Math.sqrt(m2);
-        hr *= inv;
-        hi *= inv;
-        logScale += Math.log(m2);
+    pointInputs(mirrored ? r - 4 : r, jsPoint, 0, 1);
+    evaluatePoint(K, mirrored ? setSize : 0, sectionCount, jsPoint[0], jsPoint[1], jsPoint[2], out, i);
+    foldScale(out, i);
+  }
+}
+
+/**
+ * One point of the section loop (kernel.wat does the same two points at a time): the dual
+ * products (pr + j pi, qr + j qi) = (PF, PF') and (gr + j gi, hr + j hi) = (PG, PG').
+ */
+function evaluatePoint(K: Float64Array, o0: number, sectionCount: number, u: number, s: number, cw: number, out: ComplexResponse, i: number): void {
+  let pr = 1;
+  let pi = 0;
+  let qr = 0;
+  let qi = 0;
+  let gr = 1;
+  let gi = 0;
+  let hr = 0;
+  let hi = 0;
+  let countP = 0;
+  let countG = 0;
+  for (let k = 0, o = o0; k < sectionCount; k++, o += K_STRIDE) {
+    // F = a + j b, F' = -cs + j bp
+    const a = K[o] - K[o + 1] * u;
+    const b = K[o + 2] * s;
+    const cs = K[o + 1] * s;
+    const bp = K[o + 2] * cw;
+    const qr1 = qr * a - qi * b - (pr * cs + pi * bp);
+    const qi1 = qr * b + qi * a + (pr * bp - pi * cs);
+    const pr1 = pr * a - pi * b;
+    pi = pr * b + pi * a;
+    pr = pr1;
+    qr = qr1;
+    qi = qi1;
+    // G likewise with the denominator's constants.
+    const ad = K[o + 3] - K[o + 4] * u;
+    const bd = K[o + 5] * s;
+    const csd = K[o + 4] * s;
+    const bpd = K[o + 5] * cw;
+    const hr1 = hr * ad - hi * bd - (gr * csd + gi * bpd);
+    const hi1 = hr * bd + hi * ad + (gr * bpd - gi * csd);
+    const gr1 = gr * ad - gi * bd;
+    gi = gr * bd + gi * ad;
+    gr = gr1;
+    hr = hr1;
+    hi = hi1;
+    if ((k & 3) === 3) {
+      const sp = rescaleStep(pr * pr + pi * pi);
+      if (sp !== 0) {
+        const f = sp > 0 ? RESCALE_DOWN : RESCALE_UP;
+        pr *= f;
+        pi *= f;
+        qr *= f;
+        qi *= f;
+        countP += sp;
+      }
+      const sg = rescaleStep(gr * gr + gi * gi);
+      if (sg !== 0) {
+        const f = sg > 0 ? RESCALE_DOWN : RESCALE_UP;
+        gr *= f;
+        gi *= f;
+        hr *= f;
+        hi *= f;
+        countG += sg;
       }
     }
-    magnitudeDb[i] = DB_PER_NEPER_SQUARED * (Math.log(hr * hr + hi * hi) + logScale);
-    phaseRad[i] = Math.atan2(hi, hr);
-    groupDelaySamples[i] = tau;
-    logSlope[i] = slope;
   }
+  // Bring both products inside the window before dividing (a few steps at most).
+  for (let step = 0; step < 8; step++) {
+    const sp = rescaleStep(pr * pr + pi * pi);
+    const sg = rescaleStep(gr * gr + gi * gi);
+    if (sp === 0 && sg === 0) break;
+    if (sp !== 0) {
+      const f = sp > 0 ? RESCALE_DOWN : RESCALE_UP;
+      pr *= f;
+      pi *= f;
+      qr *= f;
+      qi *= f;
+      countP += sp;
+    }
+    if (sg !== 0) {
+      const f = sg > 0 ? RESCALE_DOWN : RESCALE_UP;
+      gr *= f;
+      gi *= f;
+      hr *= f;
+      hi *= f;
+      countG += sg;
+    }
+  }
+  const ip = 1 / (pr * pr + pi * pi);
+  const ig = 1 / (gr * gr + gi * gi);
+  // d ln H / dt = PF'/PF - PG'/PG = (qr + j qi)(pr - j pi) / |PF|^2 - (hr + j hi)(gr - j gi) / |PG|^2
+  out.logSlope[i] = (qr * pr + qi * pi) * ip - (hr * gr + hi * gi) * ig;
+  out.groupDelaySamples[i] = (qr * pi - qi * pr) * ip - (hr * gi - hi * gr) * ig;
+  out.re[i] = (pr * gr + pi * gi) * ig;
+  out.im[i] = (pi * gr - pr * gi) * ig;
+  out.log2Scale[i] = RESCALE_BITS * (countP - countG);
+}
+
+/** +1 if |P|^2 is above the window, -1 if below (but not 0), else 0. */
+function rescaleStep(m2: number): number {
+  if (m2 > RESCALE_HIGH && m2 < Infinity) return 1;
+  if (m2 < RESCALE_LOW && m2 > 0) return -1;
+  return 0;
 }
 
 /** w = 2 pi f / fs for each frequency, into a new or given array. */
@@ -213,13 +387,14 @@ interface WasmMemory {
   buffer: ArrayBuffer;
   grow(pages: number): number;
 }
+type CascadeExport = (sec: number, nsec: number, pts: number, n8: number, out: number) => number;
 interface WasmApi {
   Module: new (bytes: Uint8Array) => object;
-  Instance: new (module: object, imports: object) => { exports: { memory: WasmMemory; cascade: (sec: number, nsec: number, pts: number, n8: number) => void } };
+  Instance: new (module: object, imports: object) => { exports: { memory: WasmMemory; cascade: CascadeExport } };
 }
 interface WasmKernel {
   memory: WasmMemory;
-  cascade: (sec: number, nsec: number, pts: number, n8: number) => void;
+  cascade: CascadeExport;
 }
 
 let wasmState: WasmKernel | null | undefined;
@@ -227,12 +402,14 @@ let wasmState: WasmKernel | null | undefined;
 /** Set to false to force the JavaScript kernel (tests and benchmarks compare the two). */
 export function useWasmKernel(enabled: boolean): void {
   wasmState = enabled ? undefined : null;
+  forgetGrids();
 }
 
 /** The instantiated kernel, or null where WebAssembly SIMD is unavailable or refused. */
 export function wasmKernel(): WasmKernel | null {
   if (wasmState !== undefined) return wasmState;
   wasmState = null;
+  forgetGrids();
   try {
     const api = (globalThis as unknown as { WebAssembly?: WasmApi }).WebAssembly;
     if (!api) return null;
@@ -248,87 +425,143 @@ export function wasmKernel(): WasmKernel | null {
 
 const WASM_PAGE = 65536;
 const WASM_MIN_POINTS = 32;
-/** Arrays per point group in kernel memory: sin t, u, v, sin 2t in; Re H, Im H, rescale count, tau, slope out. */
-const KERNEL_ARRAYS = 9;
-/** dB per unit of the kernel's rescale count: 10 log10(2^332). */
-const DB_PER_RESCALE = 3320 * Math.log10(2);
+/** Arrays per point in a grid's block of kernel memory: 3 inputs (u, sin t, cos t), 5 outputs. */
+const GRID_ARRAYS = 8;
+/** Grids kept prepared (the plot grid, the headroom grid, ...), most recently used last. */
+const MAX_GRIDS = 4;
 
-let slotOf = new Int32Array(0);
-/** reduce(omega[i]) per point, kept from the counting pass for the filling pass. */
-let reduced = new Float64Array(0);
+/**
+ * A frequency grid prepared in kernel memory: the per-point sine and square root are done once
+ * per grid, not once per call, so a drag that re-evaluates the same grid pays only the section
+ * loop. Points near z = 1 ("+") come first, then those near z = -1 ("-"), each group padded to
+ * an even count; `order` maps kernel slots back to the caller's indices (null when the grid is
+ * already in that order, as an ascending grid is).
+ */
+interface PreparedGrid {
+  omega: Float64Array;
+  nPlus: number;
+  nMinus: number;
+  padPlus: number;
+  padMinus: number;
+  /** Byte offset of the block: inputs of "+" then "-", then outputs (same arrangement). */
+  base: number;
+  order: Int32Array | null;
+}
 
-function cascadeResponseWasm(k: WasmKernel, packed: Float64Array, sectionCount: number, omega: Float64Array, out: KernelOutput): void {
-  const points = omega.length;
-  if (slotOf.length < points) {
-    slotOf = new Int32Array(points);
-    reduced = new Float64Array(points);
+const grids: PreparedGrid[] = [];
+/** Byte offset where grid blocks start (after the constants) and where the next one goes. */
+let constantsBytes = 0;
+let nextBlock = 0;
+
+function forgetGrids(): void {
+  grids.length = 0;
+  constantsBytes = 0;
+  nextBlock = 0;
+}
+
+function sameGrid(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+let view = new Float64Array(0);
+/** A Float64Array over kernel memory, made again only when the memory has grown. */
+function memoryView(k: WasmKernel): Float64Array {
+  if (view.buffer !== k.memory.buffer) view = new Float64Array(k.memory.buffer);
+  return view;
+}
+
+function ensureMemory(k: WasmKernel, bytes: number): void {
+  const have = k.memory.buffer.byteLength;
+  if (have < bytes) k.memory.grow(Math.ceil((bytes - have) / WASM_PAGE));
+}
+
+function prepareGrid(k: WasmKernel, omega: Float64Array, sectionCount: number): PreparedGrid {
+  const need = 2 * sectionCount * K_STRIDE * 2 * 8;
+  if (need > constantsBytes) {
+    // Room for the constants of twice as many sections; the grids move, so prepare them again.
+    constantsBytes = Math.max(need * 2, 64 * 1024);
+    grids.length = 0;
+    nextBlock = constantsBytes;
   }
-  let nearOne = 0;
+  for (let g = 0; g < grids.length; g++) {
+    const grid = grids[g];
+    if (sameGrid(grid.omega, omega)) {
+      if (g !== grids.length - 1) grids.push(grids.splice(g, 1)[0]);
+      return grid;
+    }
+  }
+  const points = omega.length;
+  const reduced = new Float64Array(points);
+  let nPlus = 0;
   for (let i = 0; i < points; i++) {
     reduced[i] = reduce(omega[i]);
-    if (reduced[i] <= 2) nearOne++;
+    if (reduced[i] <= 2) nPlus++;
   }
-  // Two groups of points, each padded to an even count: "+" (near z = 1) and "-" (near z = -1).
-  const padPlus = nearOne + (nearOne & 1);
-  const nearMinus = points - nearOne;
-  const padMinus = nearMinus + (nearMinus & 1);
-  const setDoubles = sectionCount * EXPANDED_STRIDE * 2;
-  const plusBase = 2 * setDoubles; // in doubles; 16-byte aligned since setDoubles is even
-  const minusBase = plusBase + KERNEL_ARRAYS * padPlus;
-  const need = (minusBase + KERNEL_ARRAYS * padMinus) * 8;
-  if (k.memory.buffer.byteLength < need) k.memory.grow(Math.ceil((need - k.memory.buffer.byteLength) / WASM_PAGE));
-  const mem = new Float64Array(k.memory.buffer);
-  expandSections(packed, sectionCount, mem, 0, 2);
+  const nMinus = points - nPlus;
+  const padPlus = nPlus + (nPlus & 1);
+  const padMinus = nMinus + (nMinus & 1);
+  const blockBytes = GRID_ARRAYS * (padPlus + padMinus) * 8;
+  if (grids.length >= MAX_GRIDS || nextBlock + blockBytes > 256 * 1024 * 1024) {
+    // Start over rather than manage holes: grids are cheap to prepare again.
+    grids.length = 0;
+    nextBlock = constantsBytes;
+  }
+  const base = nextBlock;
+  nextBlock += blockBytes;
+  ensureMemory(k, nextBlock);
+  const mem = memoryView(k);
+  const at = base / 8;
+  const order = new Int32Array(padPlus + padMinus).fill(-1);
+  let inOrder = true;
   let iPlus = 0;
   let iMinus = 0;
   for (let i = 0; i < points; i++) {
     const r = reduced[i];
     const mirrored = r > 2;
-    const base = mirrored ? minusBase : plusBase;
-    const pad = mirrored ? padMinus : padPlus;
-    const j = mirrored ? iMinus++ : iPlus++;
-    slotOf[i] = base + j;
-    const h = Math.sin((mirrored ? r - 4 : r) / 2);
-    const s = 2 * h * Math.sqrt(1 - h * h);
-    const u = 2 * h * h;
-    mem[base + j] = s;
-    mem[base + pad + j] = u;
-    mem[base + 2 * pad + j] = 2 * s * s;
-    mem[base + 3 * pad + j] = 2 * s * (1 - u);
+    const slot = mirrored ? padPlus + iMinus++ : iPlus++;
+    order[slot] = i;
+    if (slot !== (mirrored ? padPlus + i - nPlus : i)) inOrder = false;
+    // Inputs of "+" points: 3 arrays of padPlus; of "-" points: 3 arrays of padMinus after them.
+    if (mirrored) pointInputs(r - 4, mem, at + 3 * padPlus + (slot - padPlus), padMinus);
+    else pointInputs(r, mem, at + slot, padPlus);
   }
   // Padding points: t = 0.
-  for (let a = 0; a < 4; a++) {
-    if (padPlus > nearOne) mem[plusBase + a * padPlus + nearOne] = 0;
-    if (padMinus > nearMinus) mem[minusBase + a * padMinus + nearMinus] = 0;
+  if (padPlus > nPlus) pointInputs(0, mem, at + nPlus, padPlus);
+  if (padMinus > nMinus) pointInputs(0, mem, at + 3 * padPlus + nMinus, padMinus);
+  const grid: PreparedGrid = { omega: Float64Array.from(omega), nPlus, nMinus, padPlus, padMinus, base, order: inOrder ? null : order };
+  grids.push(grid);
+  return grid;
+}
+
+function cascadeComplexWasm(k: WasmKernel, packed: Float64Array, sectionCount: number, omega: Float64Array, out: ComplexResponse): void {
+  const grid = prepareGrid(k, omega, sectionCount);
+  const { nPlus, nMinus, padPlus, padMinus, base } = grid;
+  const mem = memoryView(k);
+  const setDoubles = sectionCount * K_STRIDE * 2;
+  expandSections(packed, sectionCount, mem, 0, 2);
+  const inPlus = base;
+  const inMinus = base + 3 * padPlus * 8;
+  const outPlus = base + 3 * (padPlus + padMinus) * 8;
+  const outMinus = outPlus + 5 * padPlus * 8;
+  let scaled = 0;
+  if (padPlus > 0) scaled |= k.cascade(0, sectionCount, inPlus, padPlus * 8, outPlus);
+  if (padMinus > 0) scaled |= k.cascade(setDoubles * 8, sectionCount, inMinus, padMinus * 8, outMinus);
+  const oP = outPlus / 8;
+  const oM = outMinus / 8;
+  for (let a = 0; a < 5; a++) {
+    const t = a === 0 ? out.re : a === 1 ? out.im : a === 2 ? out.log2Scale : a === 3 ? out.groupDelaySamples : out.logSlope;
+    const fromPlus = oP + a * padPlus;
+    const fromMinus = oM + a * padMinus;
+    if (grid.order === null) {
+      t.set(mem.subarray(fromPlus, fromPlus + nPlus), 0);
+      t.set(mem.subarray(fromMinus, fromMinus + nMinus), nPlus);
+    } else {
+      const order = grid.order;
+      for (let j = 0; j < nPlus; j++) t[order[j]] = mem[fromPlus + j];
+      for (let j = 0; j < nMinus; j++) t[order[padPlus + j]] = mem[fromMinus + j];
+    }
   }
-  if (padPlus > 0) k.cascade(0, sectionCount, plusBase * 8, padPlus * 8);
-  if (padMinus > 0) k.cascade(setDoubles * 8, sectionCount, minusBase * 8, padMinus * 8);
-  const { magnitudeDb, phaseRad, groupDelaySamples, logSlope } = out;
-  let redo: number[] | null = null;
-  for (let i = 0; i < points; i++) {
-    const j = slotOf[i];
-    const pad = j >= minusBase ? padMinus : padPlus;
-    const r = mem[j + 4 * pad];
-    const m = mem[j + 5 * pad];
-    magnitudeDb[i] = DB_PER_NEPER_SQUARED * Math.log(r * r + m * m) + DB_PER_RESCALE * mem[j + 6 * pad];
-    phaseRad[i] = Math.atan2(m, r);
-    groupDelaySamples[i] = mem[j + 7 * pad];
-    logSlope[i] = mem[j + 8 * pad];
-    if (Number.isNaN(magnitudeDb[i])) (redo ??= []).push(i);
-  }
-  // An exact zero of a section (a high-pass at 0 Hz, a low-pass at Nyquist, a notch at its
-  // frequency) makes the SIMD loop's 1 / (|N|^2 |D|^2) infinite and its H NaN, and a NaN output
-  // turns the whole sum NaN there. The JavaScript kernel keeps |N|^2 and |D|^2 apart and gives
-  // -Infinity dB: redo those few points with it.
-  if (redo) {
-    const w = Float64Array.from(redo, (i) => omega[i]);
-    const one = allocateKernelOutput(redo.length);
-    cascadeResponseJs(packed, sectionCount, w, one);
-    redo.forEach((i, j) => {
-      magnitudeDb[i] = one.magnitudeDb[j];
-      phaseRad[i] = one.phaseRad[j];
-      groupDelaySamples[i] = one.groupDelaySamples[j];
-      logSlope[i] = one.logSlope[j];
-    });
-  }
+  if (scaled) for (let i = 0; i < omega.length; i++) foldScale(out, i);
 }
