@@ -7,6 +7,7 @@ import { designInput, designOutput, type DesignedOutput } from '../design/chain'
 import type { Band, Output, Plan } from '../plan/types';
 import { headroom, type Headroom } from './headroom';
 import { largestPoleRadius } from './poles';
+import { worstCasePeak, type WorstCase } from './worst-case';
 import { formatFrequency } from '../ui/units';
 
 export type Severity = 'info' | 'warning' | 'danger';
@@ -29,7 +30,10 @@ export const HEADROOM_WARN_DB = 0.01;
 
 export interface OutputAnalysis {
   id: string;
+  /** Sine peak over 0 Hz .. Nyquist. */
   headroom: Headroom;
+  /** Peak for any input bounded by full scale (sum |h|); never below the sine peak. */
+  worstCase: WorstCase;
   largestPoleRadius: number;
   stable: boolean;
 }
@@ -78,9 +82,41 @@ function nearNyquist(plan: Plan, bands: Band[], where: string, warnings: Warning
 /** Frequencies in warnings read as in the app's fields ("63 Hz", "2.2 kHz"): `formatFrequency`. */
 export const fmtHz = formatFrequency;
 
+/** The frequencies of an output's enabled bands and edges (input chain included): where the peak search looks closely. */
+export function bandFrequencies(plan: Plan, out: Output): number[] {
+  const bands = [...plan.input.bands, ...out.bands].filter((b) => b.enabled && b.type !== 'raw').map((b) => b.frequency);
+  for (const e of [out.highPass, out.lowPass]) if (e) bands.push(e.frequency);
+  return bands;
+}
+
 export function analyzeOutput(plan: Plan, d: DesignedOutput): OutputAnalysis {
   const r = largestPoleRadius(d.sections);
-  return { id: d.id, headroom: headroom(d.sections, d.gain, plan.sampleRate), largestPoleRadius: r, stable: r < 1 };
+  const out = plan.outputs.find((o) => o.id === d.id);
+  const hints = out ? bandFrequencies(plan, out) : [];
+  return {
+    id: d.id,
+    headroom: headroom(d.sections, d.gain, plan.sampleRate, hints),
+    worstCase: worstCasePeak(d.sections, d.gain),
+    largestPoleRadius: r,
+    // NaN-safe: a radius that cannot be computed is not "stable".
+    stable: r < 1,
+  };
+}
+
+/** A dB figure for messages: "+20.02 dB", "unbounded" for an infinite gain. */
+export function dbText(db: number): string {
+  if (Number.isNaN(db)) return 'not computable';
+  if (!Number.isFinite(db)) return db > 0 ? 'unbounded' : 'no output';
+  return `${db >= 0 ? '+' : ''}${db.toFixed(2)} dB`;
+}
+
+/** Where a peak lies, with a note when it is outside the audio band. */
+export function peakPlaceText(h: Headroom): string {
+  return `${fmtHz(h.frequencyHz)}${h.outsideAudioBand ? ' (outside 20 Hz - 20 kHz)' : ''}`;
+}
+
+function hasRawBands(plan: Plan, o: Output): boolean {
+  return [...plan.input.bands, ...o.bands].some((b) => b.enabled && b.type === 'raw');
 }
 
 export function analyzePlan(plan: Plan): PlanAnalysis {
@@ -96,7 +132,7 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
         severity: 'danger',
         code: 'unstable',
         where: o.id,
-        message: `output ${o.id} is unstable: a pole lies at radius ${a.largestPoleRadius.toFixed(6)} (>= 1); check its raw bands`,
+        message: `output ${o.id} is unstable: a pole lies at radius ${Number.isFinite(a.largestPoleRadius) ? a.largestPoleRadius.toFixed(6) : 'that cannot be computed'} (>= 1)${hasRawBands(plan, o) ? '; check its raw bands' : '; check its shelf slopes and Q values'}`,
       });
     } else if (a.largestPoleRadius > MARGINAL_POLE_RADIUS) {
       warnings.push({
@@ -106,12 +142,13 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
         message: `output ${o.id} has a pole at radius ${a.largestPoleRadius.toFixed(7)}: fixed-point coefficients may make it unstable`,
       });
     }
-    if (a.headroom.peakDb > HEADROOM_WARN_DB) {
+    // NaN-safe: a peak that cannot be computed warns as loudly as a large one.
+    if (!(a.headroom.peakDb <= HEADROOM_WARN_DB)) {
       warnings.push({
-        severity: a.headroom.peakDb > 6 ? 'danger' : 'warning',
+        severity: !(a.headroom.peakDb <= 6) ? 'danger' : 'warning',
         code: 'headroom',
         where: o.id,
-        message: `output ${o.id} boosts ${a.headroom.peakDb.toFixed(2)} dB at ${fmtHz(a.headroom.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,
+        message: `output ${o.id} boosts ${dbText(a.headroom.peakDb)} at ${peakPlaceText(a.headroom)}: a full-scale input clips; lower the input level or the gain by that much`,
       });
     }
     for (const edge of [o.highPass, o.lowPass]) {

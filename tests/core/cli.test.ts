@@ -311,7 +311,7 @@ describe('check', () => {
     const r = runCli(['check', 'r.bqplan'], files);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/^r\.bqplan: valid plan "CLI test plan", 3 output\(s\) at 48000 Hz/);
-    expect(r.stdout).toMatch(/woofer boosts \d+\.\d\d dB/);
+    expect(r.stdout).toMatch(/woofer boosts \+\d+\.\d\d dB/);
     expect(r.stdout).toMatch(/output tweeter .*no high-pass edge/);
     expect(r.stdout).toMatch(/Caution: high listening levels/);
     const j = JSON.parse(runCli(['check', 'r.bqplan', '--format', 'json'], files).stdout);
