@@ -4,6 +4,7 @@
  * be destroyed). `check` on the command line and the app's status bar print these.
  */
 import { designInput, designOutput, type DesignedOutput } from '../design/chain';
+import { MONOTONIC_SHELF_SLOPE } from '../design/cookbook';
 import type { Band, Output, Plan } from '../plan/types';
 import { headroom, type Headroom } from './headroom';
 import { largestPoleRadius } from './poles';
@@ -15,7 +16,7 @@ export type Severity = 'info' | 'warning' | 'danger';
 export interface Warning {
   severity: Severity;
   /** Stable identifier of the kind of warning, for tests and the UI. */
-  code: 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability';
+  code: 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability' | 'shelf-overshoot';
   /** Where: "input", an output id, or a field path. */
   where: string;
   message: string;
@@ -63,6 +64,23 @@ function hasHighPassBand(out: Output): boolean {
 /** Frequencies above this are flagged near Nyquist. */
 function nearNyquistLimit(plan: Plan): number {
   return NEAR_NYQUIST_FRACTION * (plan.sampleRate / 2);
+}
+
+/**
+ * Shelves set by a slope above S = 1 overshoot: the cookbook's S = 1 is the steepest slope that
+ * keeps the shelf monotonic; steeper ones bump above the shelf gain and dip below 0 dB before it.
+ */
+function steepShelves(bands: Band[], where: string, warnings: Warning[]): void {
+  for (const b of bands) {
+    if (b.enabled && (b.type === 'lowShelf' || b.type === 'highShelf') && b.q === undefined && (b.slope ?? 1) > MONOTONIC_SHELF_SLOPE) {
+      warnings.push({
+        severity: 'warning',
+        code: 'shelf-overshoot',
+        where: `${where}/${b.id}`,
+        message: `band ${b.id} has shelf slope S ${b.slope}: above S = ${MONOTONIC_SHELF_SLOPE} a shelf overshoots its gain (Audio EQ Cookbook); check its peak in the headroom`,
+      });
+    }
+  }
 }
 
 function nearNyquist(plan: Plan, bands: Band[], where: string, warnings: Warning[]): void {
@@ -125,6 +143,7 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
   const outputs = plan.outputs.map((o) => analyzeOutput(plan, designOutput(plan, o, input)));
 
   nearNyquist(plan, plan.input.bands, 'input', warnings);
+  steepShelves(plan.input.bands, 'input', warnings);
   plan.outputs.forEach((o, i) => {
     const a = outputs[i];
     if (!a.stable) {
@@ -162,6 +181,7 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
       }
     }
     nearNyquist(plan, o.bands, o.id, warnings);
+    steepShelves(o.bands, o.id, warnings);
     if (!o.highPass && !hasHighPassBand(o) && looksHighFrequency(plan, o)) {
       warnings.push({
         severity: 'danger',

@@ -61,7 +61,7 @@ describe('exit codes and messages', () => {
       const r = runCli([cmd, 'bad.bqplan'], files);
       expect(r.code).toBe(1);
       expect(r.stdout).toBe('');
-      expect(r.stderr).toBe('error: bad.bqplan: outputs[1].bands[0].q: must be > 0\n');
+      expect(r.stderr).toBe('error: bad.bqplan: outputs[1].bands[0].q: must be from 0.01 to 1000\n');
     }
     const broken = runCli(['coeffs', 'broken.bqplan'], files);
     expect(broken.code).toBe(1);
