@@ -14,6 +14,7 @@
  */
 import type { EdgeKind } from './plan/types';
 import { formatFrequency } from './ui/units';
+import { dbText, peakPlaceText } from './analysis/headroom-text';
 
 export type Severity = 'info' | 'warning' | 'danger' | 'error';
 
@@ -43,9 +44,10 @@ export interface RateMisfit {
 /** The values each code carries. */
 export interface DiagnosticValues {
   // the warnings of `check` (src/analysis/check.ts)
-  unstable: { radius: number };
+  unstable: { radius: number; hasRawBands: boolean };
   'marginal-stability': { radius: number };
-  headroom: { peakDb: number; frequencyHz: number };
+  headroom: { peakDb: number; frequencyHz: number; outsideAudioBand: boolean };
+  'shelf-overshoot': { slope: number; monotonicSlope: number };
   'near-nyquist': { frequencyHz: number; nyquistHz: number; fraction: number };
   'no-high-pass': Record<string, never>;
   // refusals of the plan reader (src/plan/read.ts) and of the coefficient import (src/export/import.ts)
@@ -96,10 +98,13 @@ const fmtHz = formatFrequency;
 
 /** The command line's words for each code: ids and field paths. */
 const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
-  unstable: (d) => `output ${targetPath(d.target)} is unstable: a pole lies at radius ${d.values.radius.toFixed(6)} (>= 1); check its raw bands`,
+  unstable: (d) =>
+    `output ${targetPath(d.target)} is unstable: a pole lies at radius ${Number.isFinite(d.values.radius) ? d.values.radius.toFixed(6) : 'that cannot be computed'} (>= 1)${d.values.hasRawBands ? '; check its raw bands' : '; check its shelf slopes and Q values'}`,
   'marginal-stability': (d) => `output ${targetPath(d.target)} has a pole at radius ${d.values.radius.toFixed(7)}: fixed-point coefficients may make it unstable`,
   headroom: (d) =>
-    `output ${targetPath(d.target)} boosts ${d.values.peakDb.toFixed(2)} dB at ${fmtHz(d.values.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,
+    `output ${targetPath(d.target)} boosts ${dbText(d.values.peakDb)} at ${peakPlaceText(d.values)}: a full-scale input clips; lower the input level or the gain by that much`,
+  'shelf-overshoot': (d) =>
+    `band ${d.target.kind === 'band' ? d.target.bandId : targetPath(d.target)} has shelf slope S ${d.values.slope}: above S = ${d.values.monotonicSlope} a shelf overshoots its gain (Audio EQ Cookbook); check its peak in the headroom`,
   'near-nyquist': (d) =>
     d.target.kind === 'band'
       ? `band ${d.target.bandId} at ${fmtHz(d.values.frequencyHz)} is within ${Math.round((1 - d.values.fraction) * 100)}% of Nyquist (${fmtHz(d.values.nyquistHz)}): its shape is cramped by the bilinear transform`

@@ -4,20 +4,25 @@
  * be destroyed). `check` on the command line and the app's status bar print these.
  */
 import { designInput, designOutput, type DesignedOutput } from '../design/chain';
+import { MONOTONIC_SHELF_SLOPE } from '../design/cookbook';
 import type { Band, Output, Plan } from '../plan/types';
 import { headroom, type Headroom } from './headroom';
 import { largestPoleRadius } from './poles';
+import { worstCasePeak, type WorstCase } from './worst-case';
 import { MARGINAL_POLE_RADIUS, NEAR_NYQUIST_FRACTION, headroomSeverity } from './thresholds';
 import { diagnostic, type Diagnostic } from '../diagnostics';
 
 /** The codes `check` emits; each surface words them (see src/diagnostics.ts). */
-export type CheckCode = 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability';
+export type CheckCode = 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability' | 'shelf-overshoot';
 export type Warning = Diagnostic<CheckCode>;
 
 
 export interface OutputAnalysis {
   id: string;
+  /** Sine peak over 0 Hz .. Nyquist. */
   headroom: Headroom;
+  /** Peak for any input bounded by full scale (sum |h|); never below the sine peak. */
+  worstCase: WorstCase;
   largestPoleRadius: number;
   stable: boolean;
 }
@@ -60,9 +65,41 @@ function nearNyquist(plan: Plan, bands: Band[], chain: string, warnings: Warning
   }
 }
 
+/**
+ * Shelves set by a slope above S = 1 overshoot: the cookbook's S = 1 is the steepest slope that
+ * keeps the shelf monotonic; steeper ones bump above the shelf gain and dip below 0 dB before it.
+ */
+function steepShelves(bands: Band[], chain: string, warnings: Warning[]): void {
+  for (const b of bands) {
+    if (b.enabled && (b.type === 'lowShelf' || b.type === 'highShelf') && b.q === undefined && (b.slope ?? 1) > MONOTONIC_SHELF_SLOPE) {
+      warnings.push(diagnostic('shelf-overshoot', 'warning', { kind: 'band', chain, bandId: b.id }, { slope: b.slope ?? 1, monotonicSlope: MONOTONIC_SHELF_SLOPE }));
+    }
+  }
+}
+
+/** The frequencies of an output's enabled bands and edges (input chain included): where the peak search looks closely. */
+export function bandFrequencies(plan: Plan, out: Output): number[] {
+  const bands = [...plan.input.bands, ...out.bands].filter((b) => b.enabled && b.type !== 'raw').map((b) => b.frequency);
+  for (const e of [out.highPass, out.lowPass]) if (e) bands.push(e.frequency);
+  return bands;
+}
+
 export function analyzeOutput(plan: Plan, d: DesignedOutput): OutputAnalysis {
   const r = largestPoleRadius(d.sections);
-  return { id: d.id, headroom: headroom(d.sections, d.gain, plan.sampleRate), largestPoleRadius: r, stable: r < 1 };
+  const out = plan.outputs.find((o) => o.id === d.id);
+  const hints = out ? bandFrequencies(plan, out) : [];
+  return {
+    id: d.id,
+    headroom: headroom(d.sections, d.gain, plan.sampleRate, hints),
+    worstCase: worstCasePeak(d.sections, d.gain),
+    largestPoleRadius: r,
+    // NaN-safe: a radius that cannot be computed is not "stable".
+    stable: r < 1,
+  };
+}
+
+function hasRawBands(plan: Plan, o: Output): boolean {
+  return [...plan.input.bands, ...o.bands].some((b) => b.enabled && b.type === 'raw');
 }
 
 export function analyzePlan(plan: Plan): PlanAnalysis {
@@ -71,17 +108,18 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
   const outputs = plan.outputs.map((o) => analyzeOutput(plan, designOutput(plan, o, input)));
 
   nearNyquist(plan, plan.input.bands, 'input', warnings);
+  steepShelves(plan.input.bands, 'input', warnings);
   plan.outputs.forEach((o, i) => {
     const a = outputs[i];
     const output = { kind: 'output', outputId: o.id } as const;
     if (!a.stable) {
-      warnings.push(diagnostic('unstable', 'danger', output, { radius: a.largestPoleRadius }));
+      warnings.push(diagnostic('unstable', 'danger', output, { radius: a.largestPoleRadius, hasRawBands: hasRawBands(plan, o) }));
     } else if (a.largestPoleRadius > MARGINAL_POLE_RADIUS) {
       warnings.push(diagnostic('marginal-stability', 'warning', output, { radius: a.largestPoleRadius }));
     }
     const boost = headroomSeverity(a.headroom.peakDb);
     if (boost) {
-      warnings.push(diagnostic('headroom', boost, output, { peakDb: a.headroom.peakDb, frequencyHz: a.headroom.frequencyHz }));
+      warnings.push(diagnostic('headroom', boost, output, { peakDb: a.headroom.peakDb, frequencyHz: a.headroom.frequencyHz, outsideAudioBand: a.headroom.outsideAudioBand }));
     }
     for (const edge of ['highPass', 'lowPass'] as const) {
       const e = o[edge];
@@ -92,6 +130,7 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
       }
     }
     nearNyquist(plan, o.bands, o.id, warnings);
+    steepShelves(o.bands, o.id, warnings);
     if (!o.highPass && !hasHighPassBand(o) && looksHighFrequency(plan, o)) {
       warnings.push(diagnostic('no-high-pass', 'danger', output, {}));
     }

@@ -13,7 +13,7 @@ export const HEADROOM_WARN_DB = 0.01;
  */
 export const HEADROOM_DANGER_DB = 6;
 
-/** The headroom search runs from this frequency... */
+/** Plots of the audio band (the quantized response) run from this frequency... */
 export const HEADROOM_LOW_HZ = 10;
 /** ...to this one, or to `AUDIO_BAND_TOP_FRACTION` of fs where that is lower. */
 export const HEADROOM_HIGH_HZ = 20000;
@@ -41,12 +41,13 @@ export const DRAG_TOP_FRACTION = 0.499;
 /** The default top of `response` on the command line: 20 kHz or 99.9% of Nyquist, whichever is lower. */
 export const RESPONSE_TOP_NYQUIST_FRACTION = 0.999;
 
-/** The upper end of the headroom search band at `sampleRateHz`. */
+/** The upper end of the plotted audio band at `sampleRateHz`. */
 export function audioBandTopHz(sampleRateHz: number): number {
   return Math.min(HEADROOM_HIGH_HZ, AUDIO_BAND_TOP_FRACTION * sampleRateHz);
 }
 
 /** Headroom of `peakDb` as a severity: none, a warning, or a danger. */
 export function headroomSeverity(peakDb: number): 'warning' | 'danger' | null {
-  return peakDb > HEADROOM_DANGER_DB ? 'danger' : peakDb > HEADROOM_WARN_DB ? 'warning' : null;
+  // NaN-safe: a peak that cannot be computed is as loud a danger as a large one.
+  return !(peakDb <= HEADROOM_DANGER_DB) ? 'danger' : !(peakDb <= HEADROOM_WARN_DB) ? 'warning' : null;
 }

@@ -6,7 +6,7 @@
  */
 import { designPlan, type DesignedOutput } from '../design/chain';
 import type { Plan } from '../plan/types';
-import { cComment, cDoubleText, cIdentifier } from '../export/format';
+import { cComment, cDoubleText, cIdentifier, csvCell, printable } from '../export/format';
 import { numText } from '../export/list';
 
 export interface CoeffsListing {
@@ -44,7 +44,7 @@ export function coeffsCsvText(l: CoeffsListing): string {
   const rows = ['output,section,from,b0,b1,b2,a1,a2,gain,delayMs,delaySamples'];
   for (const o of l.outputs) {
     o.sections.forEach((s, i) => {
-      rows.push([o.id, i + 1, s.from, numText(s.b0), numText(s.b1), numText(s.b2), numText(s.a1), numText(s.a2), numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
+      rows.push([csvCell(o.id), i + 1, csvCell(s.from), numText(s.b0), numText(s.b1), numText(s.b2), numText(s.a1), numText(s.a2), numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
     });
     if (o.sections.length === 0) rows.push([o.id, 0, '', '', '', '', '', '', numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
   }
@@ -53,14 +53,14 @@ export function coeffsCsvText(l: CoeffsListing): string {
 
 export function coeffsText(l: CoeffsListing, planName: string): string {
   const lines = [
-    `# ${planName}`,
+    `# ${printable(planName)}`,
     `# sample rate ${l.sampleRate} Hz`,
     '# H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order',
   ];
   for (const o of l.outputs) {
     lines.push('', `output ${o.id}: gain ${numText(o.gain)} (linear, polarity included), delay ${numText(o.delayMs)} ms = ${o.delaySamples} samples, ${o.sections.length} sections`);
     o.sections.forEach((s, i) => {
-      lines.push(`  ${String(i + 1).padStart(2)}  b0=${numText(s.b0)} b1=${numText(s.b1)} b2=${numText(s.b2)} a1=${numText(s.a1)} a2=${numText(s.a2)}  (${s.from})`);
+      lines.push(`  ${String(i + 1).padStart(2)}  b0=${numText(s.b0)} b1=${numText(s.b1)} b2=${numText(s.b2)} a1=${numText(s.a1)} a2=${numText(s.a2)}  (${printable(s.from)})`);
     });
   }
   return lines.join('\n') + '\n';

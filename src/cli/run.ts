@@ -6,6 +6,7 @@
 import { analyzePlan } from '../analysis/check';
 import { diagnosticMessage, targetPath } from '../diagnostics';
 import { HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION } from '../analysis/thresholds';
+import { headroomLine } from '../analysis/headroom-text';
 import { designPlan, type DesignedOutput } from '../design/chain';
 import { readPlanText } from '../plan/read';
 import type { Plan } from '../plan/types';
@@ -231,7 +232,7 @@ function cmdCheck(argv: string[], io: CliIo): CliResult {
   const lines = [`${path}: valid plan "${plan.name}", ${plan.outputs.length} output(s) at ${plan.sampleRate} Hz`];
   for (const o of a.outputs) {
     lines.push(
-      `  ${o.id}: headroom peak ${o.headroom.peakDb >= 0 ? '+' : ''}${o.headroom.peakDb.toFixed(2)} dB at ${o.headroom.frequencyHz.toPrecision(4)} Hz; largest pole radius ${o.largestPoleRadius.toFixed(6)}${o.stable ? '' : ' (UNSTABLE)'}`,
+      `  ${o.id}: ${headroomLine(o)}; largest pole radius ${Number.isFinite(o.largestPoleRadius) ? o.largestPoleRadius.toFixed(6) : 'not computable'}${o.stable ? '' : ' (UNSTABLE)'}`,
     );
   }
   if (a.warnings.length === 0) lines.push('no warnings');

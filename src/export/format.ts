@@ -36,8 +36,8 @@ export function conventionLines(list: ExportList): string[] {
   const p = list.profile;
   const order = effectiveOrder(p);
   const lines = [
-    `Biquadrant export: ${list.planName}`,
-    `Board profile: ${p.name}`,
+    `Biquadrant export: ${printable(list.planName)}`,
+    `Board profile: ${printable(p.name)}`,
     `Sample rate: ${list.sampleRate} Hz${list.redesigned ? ` (redesigned; the plan is at ${list.planSampleRate} Hz)` : ''}`,
     `Profile: ${describeProfile(p, list.planSampleRate)}`,
     'Section: H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order (input chain first)',
@@ -70,10 +70,10 @@ export function exportText(list: ExportList): string {
   const lines = conventionLines(list).map((l) => `# ${l}`);
   lines.push(`# One line per section: ${effectiveOrder(list.profile).join(' ')}`);
   for (const o of list.outputs) {
-    lines.push('', `output ${o.id}`);
+    lines.push('', `output ${printable(o.id)}`);
     if (o.gain.written) lines.push(`gain ${o.gain.written.text}${gainSaturated(o) ? '  # SATURATED gain' : ''}`);
     lines.push(`delay ${o.delay.text} ${list.profile.delayUnit}`);
-    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}${scaleNote(s.scale)}${flagNote(s)}`);
+    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${printable(s.from)}${scaleNote(s.scale)}${flagNote(s)}`);
   }
   return lines.join('\n') + '\n';
 }
@@ -99,8 +99,10 @@ function scaleNote(scale: number): string {
   return scale === 1 ? '' : ` (b scaled x${scale.toPrecision(6)})`;
 }
 
-function csvCell(s: string): string {
-  return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+/** A CSV cell on one line: escaped (printable) and quoted when it holds a quote or comma. */
+export function csvCell(text: string): string {
+  const s = printable(text);
+  return /[",]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
 export function exportCsv(list: ExportList): string {
@@ -160,9 +162,18 @@ export function cIdentifier(id: string): string {
   return /^[0-9]/.test(s) ? `_${s}` : s;
 }
 
-/** Text made safe inside a C block comment (a star-slash in it would end the comment). */
+/**
+ * Text safe on one line of any export: control characters and line separators written as
+ * \uXXXX. The plan reader refuses them in names and ids; this holds for any list regardless (a
+ * line break in a name inside a comment would start a line the board reads as data).
+ */
+export function printable(s: string): string {
+  return s.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+}
+
+/** Text made safe inside a C block comment (a star-slash in it would end the comment), on one line. */
 export function cComment(s: string): string {
-  return s.replace(/\*\//g, '* /');
+  return printable(s).replace(/\*\//g, '* /');
 }
 
 /** A decimal text as a C double literal ("1" -> "1.0"; "0.5", "1e-7" as they are). */
@@ -201,7 +212,7 @@ export function exportC(list: ExportList): string {
   for (const o of list.outputs) {
     const upper = cIdentifier(o.id).toUpperCase();
     const lower = cIdentifier(o.id).toLowerCase();
-    lines.push('', `/* output ${o.id} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
+    lines.push('', `/* output ${cComment(o.id)} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
     lines.push(list.profile.delayUnit === 'samples' ? `#define BQ_${upper}_DELAY_SAMPLES ${o.delay.text}` : `#define BQ_${upper}_DELAY_MS ${o.delay.text}`);
     if (o.gain.written) lines.push(`static const ${type} bq_${lower}_gain = ${cLiteral(o.gain.written, list)};${gainSaturated(o) ? ' /* SATURATED */' : ''}`);
     if (o.sections.length === 0) {

@@ -3,7 +3,7 @@
  *
  * A fixed-point board clips wherever a signal passes full scale, not only at the output: what
  * matters is the peak gain of every partial cascade H1, H1 H2, ..., H1..HN over the audio band
- * (10 Hz .. min(20 kHz, 0.45 fs), measured by `headroom`), for a full-scale sine at the input.
+ * (0 Hz .. Nyquist, measured by `headroom`, the same search as the plan check), for a full-scale sine at the input.
  *
  * The suggestion follows two published rules:
  * - Ordering: sections by increasing pole radius, so the poles nearest the unit circle (the most
@@ -33,7 +33,7 @@ export interface PartialPeak {
   frequencyHz: number;
 }
 
-/** The peak gain after section 1, 1..2, ..., 1..N (each over the audio band). */
+/** The peak gain after section 1, 1..2, ..., 1..N (each over 0 Hz .. Nyquist). */
 export function partialCascadePeaks(sections: readonly Section[], sampleRateHz: number): PartialPeak[] {
   const out: PartialPeak[] = [];
   for (let k = 1; k <= sections.length; k++) {
@@ -69,6 +69,8 @@ export interface ScalingSuggestion {
  * reported as overflow. The suggested scaling itself attenuates any peak above 0 dB exactly.
  */
 export const OVERFLOW_TOLERANCE_DB = HEADROOM_WARN_DB;
+/** Peaks up to this are float rounding of 0 dB (the search reaches 1e-11 dB at 0 Hz for plain cuts). */
+const ROUNDING_DB = 1e-9;
 
 export function suggestOrderAndScaling(sections: readonly Section[], sampleRateHz: number, current?: PartialPeak[]): ScalingSuggestion {
   const radii = sections.map(poleRadius);
@@ -79,7 +81,8 @@ export function suggestOrderAndScaling(sections: readonly Section[], sampleRateH
   const peaks: PartialPeak[] = [];
   let previous = 1;
   for (const p of peaksUnscaled) {
-    const s = 1 / Math.max(1, Math.pow(10, p.peakDb / 20));
+    // A peak within rounding of 0 dB (a cut's +1e-11 dB at 0 Hz) is 0 dB: no scaling for it.
+    const s = p.peakDb <= ROUNDING_DB ? 1 : 1 / Math.pow(10, p.peakDb / 20);
     scales.push(s / previous);
     // The scaled partial cascade is the unscaled one times S_k at every frequency: same peak
     // frequency, peak lower by 20 log10 S_k (no second search needed).

@@ -6,9 +6,10 @@
  * contract does not know is refused too, rather than dropped: a plan never loses data silently.
  * Older versions are migrated (see `migrate.ts`); a version this build does not know is refused.
  */
-import { maxShelfSlope } from '../design/cookbook';
 import { diagnostic, DiagnosticError } from '../diagnostics';
+import { maxShelfSlope, safeShelfSlope, shelfSlopeLimitText, SHELF_SLOPE_Q_MAX } from '../design/cookbook';
 import { migrate } from './migrate';
+import { parseJsonText } from './json';
 import {
   BAND_TYPES,
   BESSEL_NORMALIZATIONS,
@@ -50,75 +51,8 @@ export function readPlanText(text: string): ReadResult {
   return parsed.ok ? readPlanValue(parsed.value) : parsed;
 }
 
-/**
- * JSON.parse for plan and profile files; never throws. Text that is not JSON only because of a
- * bare NaN or Infinity is refused at that number's field path.
- */
-export function parseJsonText(text: string): { ok: true; value: unknown } | { ok: false; error: PlanError } {
-  try {
-    return { ok: true, value: JSON.parse(text) };
-  } catch (e) {
-    const bare = bareNonFiniteNumber(text);
-    if (bare) return { ok: false, error: new PlanError(bare.path, `must be a finite number, not ${bare.token} (not valid JSON either)`) };
-    return { ok: false, error: new PlanError('', `not valid JSON (${(e as Error).message})`) };
-  }
-}
-
-/**
- * Where text that is not JSON only because of a bare NaN, Infinity or -Infinity (as some
- * writers put them) holds the first such token: its field path (`outputs[0].bands[1].q`, in
- * the reader's notation) and the token; null when that is not the reason.
- */
-export function bareNonFiniteNumber(text: string): { path: string; token: string } | null {
-  const MARK = '\u0000nonfinite:';
-  let out = '';
-  let found = false;
-  for (let i = 0; i < text.length; ) {
-    const ch = text[i];
-    if (ch === '"') {
-      // copy a string literal as it is
-      let j = i + 1;
-      while (j < text.length && text[j] !== '"') j += text[j] === '\\' ? 2 : 1;
-      out += text.slice(i, j + 1);
-      i = j + 1;
-      continue;
-    }
-    const m = /^(-?Infinity|NaN)(?![A-Za-z0-9_])/.exec(text.slice(i, i + 10));
-    if (m && !/[A-Za-z0-9_.]/.test(text[i - 1] ?? '')) {
-      out += JSON.stringify(MARK + m[1]);
-      i += m[1].length;
-      found = true;
-      continue;
-    }
-    out += ch;
-    i++;
-  }
-  if (!found) return null;
-  let value: unknown;
-  try {
-    value = JSON.parse(out);
-  } catch {
-    return null;
-  }
-  const walk = (v: unknown, path: string): { path: string; token: string } | null => {
-    if (typeof v === 'string') return v.startsWith(MARK) ? { path, token: v.slice(MARK.length) } : null;
-    if (Array.isArray(v)) {
-      for (let k = 0; k < v.length; k++) {
-        const r = walk(v[k], `${path}[${k}]`);
-        if (r) return r;
-      }
-      return null;
-    }
-    if (typeof v === 'object' && v !== null) {
-      for (const [key, x] of Object.entries(v)) {
-        const r = walk(x, path ? `${path}.${key}` : key);
-        if (r) return r;
-      }
-    }
-    return null;
-  };
-  return walk(value, '');
-}
+/** JSON text for plans, profiles and exports (plan/json.ts): BOM, line and column, bare NaN. */
+export { parseJsonText, bareNonFiniteNumber } from './json';
 
 /** Reads an already parsed value as a plan. Never throws. */
 export function readPlanValue(value: unknown): ReadResult {
@@ -163,7 +97,7 @@ function readCurrent(o: Record<string, unknown>): Plan {
     input: { bands: [] },
     outputs: [],
   };
-  if (o.notes !== undefined) plan.notes = str(o.notes, 'notes', 100000);
+  if (o.notes !== undefined) plan.notes = str(o.notes, 'notes', LIMITS.notesMaxLength, true);
   const input = object(o.input, 'input');
   allowKeys(input, 'input', ['bands']);
   plan.input.bands = readBands(input.bands, 'input.bands', sampleRate);
@@ -363,17 +297,20 @@ function readBand(v: unknown, path: string, fs: number): Band {
   }
   if (o.q !== undefined) {
     band.q = num(o.q, `${path}.q`);
-    if (!(band.q > 0)) throw new PlanError(`${path}.q`, 'must be > 0');
-    if (band.q > LIMITS.qMax) throw new PlanError(`${path}.q`, `must be at most ${LIMITS.qMax}`);
+    // Written so that NaN fails too (every comparison below is "not inside the range").
+    if (!(band.q >= LIMITS.qMin && band.q <= LIMITS.qMax)) throw new PlanError(`${path}.q`, `must be from ${LIMITS.qMin} to ${LIMITS.qMax}`);
   }
   if (o.slope !== undefined) {
     band.slope = num(o.slope, `${path}.slope`);
-    if (!(band.slope > 0)) throw new PlanError(`${path}.slope`, 'must be > 0');
+    if (!(band.slope >= LIMITS.slopeMin)) throw new PlanError(`${path}.slope`, `must be at least ${LIMITS.slopeMin}`);
     if ((type === 'lowShelf' || type === 'highShelf') && band.q === undefined) {
-      const max = maxShelfSlope(band.gainDb ?? 0);
-      // A hair of tolerance for slopes typed at the limit; shelfAlpha clamps the rest.
-      if (band.slope > max * (1 + 1e-9)) {
-        throw new PlanError(`${path}.slope`, `must be at most ${max.toPrecision(6)} for a ${band.gainDb ?? 0} dB shelf (steeper has no real alpha)`);
+      const gain = band.gainDb ?? 0;
+      const safe = safeShelfSlope(gain);
+      if (!(band.slope <= safe)) {
+        throw new PlanError(
+          `${path}.slope`,
+          `must be at most ${shelfSlopeLimitText(gain)} for a ${gain} dB shelf (steeper puts its poles within a Q ${SHELF_SLOPE_Q_MAX} resonance of the unit circle; they reach it at S ${maxShelfSlope(gain).toPrecision(4)}); S up to 1 keeps the shelf monotonic`,
+        );
       }
     }
   }
@@ -394,8 +331,15 @@ function readCoefficients(v: unknown, path: string): RawCoefficients {
     a2: num(o.a2, `${path}.a2`),
   };
   if (c.a0 === 0) throw new PlanError(`${path}.a0`, 'must not be 0');
-  const scaled = [c.b0, c.b1, c.b2, c.a1, c.a2].map((x) => x / c.a0);
-  if (!scaled.every(Number.isFinite)) throw new PlanError(`${path}.a0`, 'too small: dividing by it overflows');
+  // Bounded after dividing by a0: |b| up to 1000 (+60 dB, the gain limit) and |a1|, |a2| up to
+  // 1000 keep a cascade's response, poles and sum |h| finite in double precision.
+  const max = LIMITS.rawCoefficientAbsMax;
+  for (const k of ['b0', 'b1', 'b2', 'a1', 'a2'] as const) {
+    const x = c[k] / c.a0;
+    if (!(Math.abs(x) <= max)) {
+      throw new PlanError(`${path}.${k}`, `divided by a0 must be within +/-${max} (is ${Number.isFinite(x) ? x.toPrecision(6) : 'out of range'})`);
+    }
+  }
   return c;
 }
 
@@ -427,10 +371,23 @@ function num(v: unknown, path: string): number {
   return v;
 }
 
-function str(v: unknown, path: string, maxLength: number): string {
+/**
+ * Control characters (C0, DEL, C1) and the Unicode line and paragraph separators. In a name or id
+ * they can end a comment line of an export and start a line the board (or our import) reads as
+ * data, so names and ids refuse them; notes, which are free text, keep tab and line breaks.
+ */
+export const CONTROL_CHARACTERS = /[\u0000-\u001f\u007f-\u009f\u2028\u2029]/;
+const CONTROL_EXCEPT_LINE_BREAKS = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/;
+
+function str(v: unknown, path: string, maxLength: number, allowLineBreaks = false): string {
   if (v === undefined) throw new PlanError(path, 'is required');
   if (typeof v !== 'string') throw new PlanError(path, `must be a string, not ${describe(v)}`);
   if (v.length > maxLength) throw new PlanError(path, `must be at most ${maxLength} characters`);
+  const bad = (allowLineBreaks ? CONTROL_EXCEPT_LINE_BREAKS : CONTROL_CHARACTERS).exec(v);
+  if (bad) {
+    const code = bad[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0');
+    throw new PlanError(path, `must not contain control characters (U+${code} at character ${bad.index + 1})`);
+  }
   return v;
 }
 

@@ -169,7 +169,13 @@ export const LIMITS = {
   linkwitzRileyOrders: [2, 4, 6, 8] as readonly number[],
   gainDbAbsMax: 60,
   outputGainDbAbsMax: 60,
+  /** Q and shelf slope S: below 0.01 the cookbook's alpha (sin w0 / 2Q) grows past any use, and at 5e-324 it is Infinity (NaN coefficients). */
+  qMin: 0.01,
   qMax: 1000,
+  slopeMin: 0.01,
+  /** Raw coefficients divided by a0. */
+  rawCoefficientAbsMax: 1000,
+  notesMaxLength: 100000,
   delayMsMax: 10000,
   idPattern: /^[a-z0-9_-]{1,32}$/,
   bandIdMaxLength: 32,

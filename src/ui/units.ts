@@ -96,23 +96,25 @@ export function parseQOrBandwidth(text: string): Parsed<QEntry> {
   return q.ok ? { ok: true, value: { kind: 'q', q: q.value } } : q;
 }
 
-/** A quality factor, 0 < Q <= LIMITS.qMax. */
+/** A quality factor, LIMITS.qMin <= Q <= LIMITS.qMax. */
 export function parseQ(text: string): Parsed {
   const t = clean(text).replace(/^q=?/, '');
   if (t === '') return { ok: false, reason: 'enter a Q (e.g. 0.7)' };
   const n = parsePlainNumber(t);
   if (!n.ok) return { ok: false, reason: `"${text.trim()}" is not a Q` };
   if (!(n.value > 0)) return { ok: false, reason: 'Q must be above 0' };
-  if (n.value > LIMITS.qMax) return { ok: false, reason: `Q must be at most ${LIMITS.qMax}` };
+  if (!(n.value >= LIMITS.qMin)) return { ok: false, reason: `Q must be at least ${LIMITS.qMin}` };
+  if (!(n.value <= LIMITS.qMax)) return { ok: false, reason: `Q must be at most ${LIMITS.qMax}` };
   return { ok: true, value: n.value };
 }
 
-/** A shelf slope S (> 0); the plan reader checks the upper limit that depends on the gain. */
+/** A shelf slope S (>= LIMITS.slopeMin); the plan reader checks the upper limit that depends on the gain. */
 export function parseSlope(text: string): Parsed {
   const t = clean(text).replace(/^s=?/, '');
   const n = parsePlainNumber(t);
   if (!n.ok) return { ok: false, reason: `"${text.trim()}" is not a slope` };
   if (!(n.value > 0)) return { ok: false, reason: 'slope must be above 0' };
+  if (!(n.value >= LIMITS.slopeMin)) return { ok: false, reason: `slope must be at least ${LIMITS.slopeMin}` };
   return { ok: true, value: n.value };
 }
 

@@ -61,7 +61,7 @@ describe('exit codes and messages', () => {
       const r = runCli([cmd, 'bad.bqplan'], files);
       expect(r.code).toBe(1);
       expect(r.stdout).toBe('');
-      expect(r.stderr).toBe('error: bad.bqplan: outputs[1].bands[0].q: must be > 0\n');
+      expect(r.stderr).toBe('error: bad.bqplan: outputs[1].bands[0].q: must be from 0.01 to 1000\n');
     }
     const broken = runCli(['coeffs', 'broken.bqplan'], files);
     expect(broken.code).toBe(1);
@@ -311,7 +311,7 @@ describe('check', () => {
     const r = runCli(['check', 'r.bqplan'], files);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/^r\.bqplan: valid plan "CLI test plan", 3 output\(s\) at 48000 Hz/);
-    expect(r.stdout).toMatch(/woofer boosts \d+\.\d\d dB/);
+    expect(r.stdout).toMatch(/woofer boosts \+\d+\.\d\d dB/);
     expect(r.stdout).toMatch(/output tweeter .*no high-pass edge/);
     expect(r.stdout).toMatch(/Caution: high listening levels/);
     const j = JSON.parse(runCli(['check', 'r.bqplan', '--format', 'json'], files).stdout);

@@ -178,12 +178,15 @@ describe('Q of 0.05 and 50, gain of +/-30 dB', () => {
   });
   it('Q beyond the limits and gains beyond +/-60 dB are refused with the field path', () => {
     const bad: [Record<string, unknown>, string][] = [
-      [{ q: 0 }, 'q: must be > 0'],
-      [{ q: -1 }, 'q: must be > 0'],
-      [{ q: LIMITS.qMax * 2 }, 'q: must be at most'],
+      [{ q: 0 }, 'q: must be from 0.01 to 1000'],
+      [{ q: -1 }, 'q: must be from 0.01 to 1000'],
+      // 5e-324 (the smallest double) made alpha Infinity and every coefficient NaN.
+      [{ q: 5e-324 }, 'q: must be from 0.01 to 1000'],
+      [{ q: LIMITS.qMax * 2 }, 'q: must be from 0.01 to 1000'],
       [{ gainDb: 61 }, 'gainDb: must be within'],
       [{ gainDb: -61 }, 'gainDb: must be within'],
-      [{ slope: 0 }, 'slope: must be > 0'],
+      [{ slope: 0 }, 'slope: must be at least 0.01'],
+      [{ slope: 5e-324 }, 'slope: must be at least 0.01'],
     ];
     for (const [extra, msg] of bad) {
       const r = readBand({ id: 'x', type: 'peaking', frequency: 1000, gainDb: 3, q: 1, ...extra }, 48000);
@@ -252,7 +255,7 @@ describe('sweep of every band type over extremes the reader accepts', () => {
           if (type === 'raw') continue;
           // Only the parameters a type uses are varied (BAND_PARAMETERS); the others stay unset.
           const uses = BAND_PARAMETERS[type];
-          for (const q of uses.q ? [undefined, 0.001, 0.05, 0.7071, 50, LIMITS.qMax] : [undefined]) {
+          for (const q of uses.q ? [undefined, LIMITS.qMin, 0.05, 0.7071, 50, LIMITS.qMax] : [undefined]) {
             for (const g of uses.gain ? [undefined, -LIMITS.gainDbAbsMax, -30, 0, 30, LIMITS.gainDbAbsMax] : [undefined]) {
               for (const slope of uses.slope ? [undefined, 0.01, 1] : [undefined]) {
                 const b: Record<string, unknown> = { id: 'x', type, frequency: f };
@@ -277,7 +280,7 @@ describe('sweep of every band type over extremes the reader accepts', () => {
     }
     expect(designed).toBeGreaterThan(1500);
   });
-  it('raw sections: finite after a0 normalization; a0 = 0 or an overflowing a0 is refused', () => {
+  it('raw sections: finite after a0 normalization; a0 = 0 or a coefficient beyond +/-1000 after dividing by a0 is refused', () => {
     const ok = readBand({ id: 'r', type: 'raw', coefficients: { b0: 2, b1: 0.5, b2: 0.1, a0: 2, a1: -0.4, a2: 0.2 } }, 48000);
     expect(ok.ok).toBe(true);
     if (ok.ok) {
@@ -289,6 +292,6 @@ describe('sweep of every band type over extremes the reader accepts', () => {
     if (!zero.ok) expect(zero.error.message).toBe('input.bands[0].coefficients.a0: must not be 0');
     const tiny = readBand({ id: 'r', type: 'raw', coefficients: { b0: 1e300, b1: 0, b2: 0, a0: 1e-300, a1: 0, a2: 0 } }, 48000);
     expect(tiny.ok).toBe(false);
-    if (!tiny.ok) expect(tiny.error.path).toBe('input.bands[0].coefficients.a0');
+    if (!tiny.ok) expect(tiny.error.path).toBe('input.bands[0].coefficients.b0');
   });
 });

@@ -87,8 +87,8 @@ describe('the reference plan', () => {
 
 describe('every error names the field path', () => {
   const cases: [string, (p: Record<string, any>) => void, string][] = [
-    ['q zero', (p) => (p.outputs[1].bands[0].q = 0), 'outputs[1].bands[0].q: must be > 0'],
-    ['q negative', (p) => (p.outputs[1].bands[0].q = -3), 'outputs[1].bands[0].q: must be > 0'],
+    ['q zero', (p) => (p.outputs[1].bands[0].q = 0), 'outputs[1].bands[0].q: must be from 0.01 to 1000'],
+    ['q negative', (p) => (p.outputs[1].bands[0].q = -3), 'outputs[1].bands[0].q: must be from 0.01 to 1000'],
     ['q string', (p) => (p.outputs[1].bands[0].q = '1.2'), 'outputs[1].bands[0].q: must be a number'],
     ['frequency NaN', (p) => (p.input.bands[0].frequency = NaN), 'input.bands[0].frequency: must be a finite number'],
     ['frequency Infinity', (p) => (p.input.bands[0].frequency = Infinity), 'input.bands[0].frequency: must be a finite number'],

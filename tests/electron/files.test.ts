@@ -156,7 +156,7 @@ describe('savePlanFile', () => {
     bad.outputs[0].bands = [{ id: 'x', type: 'peaking', frequency: 1000, gainDb: 3, q: -1, enabled: true }];
     const result = await savePlanFile(path, bad);
     expect(result.ok).toBe(false);
-    if (!result.ok) expect(result.error).toContain('outputs[0].bands[0].q: must be > 0');
+    if (!result.ok) expect(result.error).toContain('outputs[0].bands[0].q: must be from 0.01 to 1000');
     expect(await snapshot()).toEqual(before);
 
     const nan = structuredClone(plan);

@@ -38,9 +38,9 @@ export function bandArb(fs: number, id: string): fc.Arbitrary<Band> {
         type: fc.constantFrom(...BAND_TYPES),
         frequency: frequency(fs),
         gainDb: fc.option(num(-LIMITS.gainDbAbsMax, LIMITS.gainDbAbsMax), { nil: undefined }),
-        q: fc.option(num(1e-3, LIMITS.qMax), { nil: undefined }),
+        q: fc.option(num(LIMITS.qMin, LIMITS.qMax), { nil: undefined }),
         // Any S in (0, 1] is inside the cookbook limit of every gain (the limit is >= 1).
-        slope: fc.option(num(1e-3, 1), { nil: undefined }),
+        slope: fc.option(num(LIMITS.slopeMin, 1), { nil: undefined }),
         enabled: fc.boolean(),
         coefficients: fc.record({
           b0: num(-10, 10),

@@ -7,6 +7,7 @@
 import type { Diagnostic, DiagnosticCode, DiagnosticTarget, RateMisfit } from '../../../src/diagnostics';
 import type { Plan } from '../../../src/plan/types';
 import { formatFrequency as fmtHz } from '../../../src/ui/units';
+import { dbText, peakPlaceText } from '../../../src/analysis/headroom-text';
 
 function outputName(plan: Plan, id: string): string {
   return plan.outputs.find((o) => o.id === id)?.name ?? id;
@@ -60,10 +61,13 @@ function withPlace(plan: Plan, t: DiagnosticTarget, reason: string): string {
 }
 
 const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } = {
-  unstable: (plan, d) => `${targetText(plan, d.target)} is unstable: a pole lies at radius ${d.values.radius.toFixed(6)} (>= 1); check its raw bands`,
+  unstable: (plan, d) =>
+    `${targetText(plan, d.target)} is unstable: a pole lies at radius ${Number.isFinite(d.values.radius) ? d.values.radius.toFixed(6) : 'that cannot be computed'} (>= 1)${d.values.hasRawBands ? '; check its raw bands' : '; check its shelf slopes and Q values'}`,
   'marginal-stability': (plan, d) => `${targetText(plan, d.target)} has a pole at radius ${d.values.radius.toFixed(7)}: fixed-point coefficients may make it unstable`,
   headroom: (plan, d) =>
-    `${targetText(plan, d.target)} boosts ${d.values.peakDb.toFixed(2)} dB at ${fmtHz(d.values.frequencyHz)}: a full-scale input clips; lower the input level or the gain by that much`,
+    `${targetText(plan, d.target)} boosts ${dbText(d.values.peakDb)} at ${peakPlaceText(d.values)}: a full-scale input clips; lower the input level or the gain by that much`,
+  'shelf-overshoot': (plan, d) =>
+    `${targetText(plan, d.target)} has shelf slope S ${d.values.slope}: above S = ${d.values.monotonicSlope} a shelf overshoots its gain; check its peak in the headroom`,
   'near-nyquist': (plan, d) =>
     d.target.kind === 'band'
       ? `${targetText(plan, d.target)} at ${fmtHz(d.values.frequencyHz)} is within ${Math.round((1 - d.values.fraction) * 100)}% of Nyquist (${fmtHz(d.values.nyquistHz)}): its shape is cramped by the bilinear transform`

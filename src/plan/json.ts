@@ -1,0 +1,121 @@
+/**
+ * JSON text in for plans, profiles and coefficient exports: never throws, never recurses.
+ *
+ * - A UTF-8 byte order mark at the start is dropped (editors on some systems write one; RFC 8259,
+ *   section 8.1, lets a parser ignore it).
+ * - A syntax error is reported with its line and column (1-based), on one line, without quoting
+ *   the text (a quoted newline would spread the message over several lines).
+ * - Text that is not JSON only because of a bare NaN, Infinity or -Infinity (as some writers put
+ *   them) is refused at that number's field path.
+ * Walks over parsed values use an explicit stack: a file nested 5,000 levels deep must give an
+ * error, not a stack overflow.
+ */
+import { PlanError } from './read';
+
+export type JsonResult = { ok: true; value: unknown } | { ok: false; error: PlanError };
+
+const BOM = '\uFEFF';
+
+/** The text without a leading byte order mark. */
+export function stripBom(text: string): string {
+  return text.startsWith(BOM) ? text.slice(1) : text;
+}
+
+/** A field path for a message: a path thousands of levels deep keeps its start and end. */
+export function shortPath(path: string): string {
+  return path.length <= 120 ? path : `${path.slice(0, 60)}...${path.slice(-40)}`;
+}
+
+/** 1-based line and column of a character offset. */
+export function lineColumn(text: string, offset: number): { line: number; column: number } {
+  let line = 1;
+  let start = 0;
+  for (let i = 0; i < offset && i < text.length; i++) {
+    if (text[i] === '\n') {
+      line++;
+      start = i + 1;
+    }
+  }
+  return { line, column: offset - start + 1 };
+}
+
+/** A character for a message: printable as it is, anything else as U+XXXX. */
+function shown(ch: string | undefined): string {
+  if (ch === undefined) return 'end of text';
+  return /^[\x21-\x7e]$/.test(ch) ? `'${ch}'` : `U+${ch.codePointAt(0)!.toString(16).toUpperCase().padStart(4, '0')}`;
+}
+
+/** Where JSON.parse stopped: its "position N" (V8), or the first offset where a prefix stops parsing. */
+function errorOffset(text: string, message: string): number {
+  const m = /position (\d+)/.exec(message);
+  if (m) return Number(m[1]);
+  if (/Unexpected end of JSON input/.test(message)) return text.length;
+  return -1;
+}
+
+export function parseJsonText(raw: string): JsonResult {
+  const text = stripBom(raw);
+  try {
+    return { ok: true, value: JSON.parse(text) };
+  } catch (e) {
+    const bare = bareNonFiniteNumber(text);
+    if (bare) return { ok: false, error: new PlanError(shortPath(bare.path), `must be a finite number, not ${bare.token} (not valid JSON either)`) };
+    const offset = errorOffset(text, (e as Error).message);
+    if (offset < 0) return { ok: false, error: new PlanError('', 'not valid JSON') };
+    const { line, column } = lineColumn(text, offset);
+    const what = offset >= text.length ? 'unexpected end of text' : `unexpected ${shown(text[offset])}`;
+    return { ok: false, error: new PlanError('', `not valid JSON at line ${line}, column ${column} (${what})`) };
+  }
+}
+
+/**
+ * Where text that is not JSON only because of a bare NaN, Infinity or -Infinity holds the first
+ * such token: its field path (`outputs[0].bands[1].q`, in the reader's notation) and the token;
+ * null when that is not the reason.
+ */
+export function bareNonFiniteNumber(text: string): { path: string; token: string } | null {
+  const MARK = '\u0000nonfinite:';
+  let out = '';
+  let found = false;
+  for (let i = 0; i < text.length; ) {
+    const ch = text[i];
+    if (ch === '"') {
+      // copy a string literal as it is
+      let j = i + 1;
+      while (j < text.length && text[j] !== '"') j += text[j] === '\\' ? 2 : 1;
+      out += text.slice(i, j + 1);
+      i = j + 1;
+      continue;
+    }
+    const m = /^(-?Infinity|NaN)(?![A-Za-z0-9_])/.exec(text.slice(i, i + 10));
+    if (m && !/[A-Za-z0-9_.]/.test(text[i - 1] ?? '')) {
+      out += JSON.stringify(MARK + m[1]);
+      i += m[1].length;
+      found = true;
+      continue;
+    }
+    out += ch;
+    i++;
+  }
+  if (!found) return null;
+  let value: unknown;
+  try {
+    value = JSON.parse(out);
+  } catch {
+    return null;
+  }
+  // Depth-first, in document order, with an explicit stack.
+  const stack: { v: unknown; path: string }[] = [{ v: value, path: '' }];
+  while (stack.length > 0) {
+    const { v, path } = stack.pop()!;
+    if (typeof v === 'string') {
+      if (v.startsWith(MARK)) return { path, token: v.slice(MARK.length) };
+    } else if (Array.isArray(v)) {
+      for (let k = v.length - 1; k >= 0; k--) stack.push({ v: v[k], path: `${path}[${k}]` });
+    } else if (typeof v === 'object' && v !== null) {
+      const entries = Object.entries(v);
+      for (let k = entries.length - 1; k >= 0; k--) stack.push({ v: entries[k][1], path: path ? `${path}.${entries[k][0]}` : entries[k][0] });
+    }
+  }
+  return null;
+}
