@@ -30,7 +30,7 @@
     (local $pr v128) (local $pi v128) (local $qr v128) (local $qi v128)
     (local $gr v128) (local $gi v128) (local $hr v128) (local $hi v128)
     (local $a v128) (local $b v128) (local $c v128) (local $cs v128) (local $bp v128) (local $t v128)
-    (local $m2 v128) (local $mhi v128) (local $mlo v128) (local $f v128) (local $ip v128) (local $ig v128)
+    (local $m2 v128) (local $m2g v128) (local $mhi v128) (local $mlo v128) (local $f v128) (local $ip v128) (local $ig v128)
     (local.set $oend (i32.add (local.get $sec) (i32.mul (local.get $nsec) (i32.const 96))))
     (local.set $scaled (v128.const i64x2 0 0))
     (local.set $p (i32.const 0))
@@ -93,49 +93,57 @@
             (local.set $k (i32.add (local.get $k) (i32.const 1)))
             (if (i32.eqz (i32.and (local.get $k) (i32.const 3)))
               (then
+                ;; One test for both products; the per-product steps only when one is outside.
                 (local.set $m2 (f64x2.add (f64x2.mul (local.get $pr) (local.get $pr)) (f64x2.mul (local.get $pi) (local.get $pi))))
-                (local.set $mhi (v128.and
-                  (f64x2.gt (local.get $m2) (v128.const f64x2 1e100 1e100))
-                  (f64x2.lt (local.get $m2) (v128.const f64x2 inf inf))))
-                (local.set $mlo (v128.and
-                  (f64x2.lt (local.get $m2) (v128.const f64x2 1e-100 1e-100))
-                  (f64x2.gt (local.get $m2) (v128.const f64x2 0 0))))
-                (if (v128.any_true (v128.or (local.get $mhi) (local.get $mlo)))
+                (local.set $m2g (f64x2.add (f64x2.mul (local.get $gr) (local.get $gr)) (f64x2.mul (local.get $gi) (local.get $gi))))
+                (if (v128.any_true (v128.or
+                      (v128.or
+                        (f64x2.gt (local.get $m2) (v128.const f64x2 1e100 1e100))
+                        (f64x2.gt (local.get $m2g) (v128.const f64x2 1e100 1e100)))
+                      (v128.or
+                        (f64x2.lt (local.get $m2) (v128.const f64x2 1e-100 1e-100))
+                        (f64x2.lt (local.get $m2g) (v128.const f64x2 1e-100 1e-100)))))
                   (then
-                    (local.set $f (v128.bitselect (v128.const f64x2 0x1p166 0x1p166)
-                      (v128.bitselect (v128.const f64x2 0x1p-166 0x1p-166) (v128.const f64x2 1 1) (local.get $mhi))
-                      (local.get $mlo)))
-                    (local.set $pr (f64x2.mul (local.get $pr) (local.get $f)))
-                    (local.set $pi (f64x2.mul (local.get $pi) (local.get $f)))
-                    (local.set $qr (f64x2.mul (local.get $qr) (local.get $f)))
-                    (local.set $qi (f64x2.mul (local.get $qi) (local.get $f)))
-                    (v128.store (local.get $cp) (f64x2.add (v128.load (local.get $cp))
-                      (f64x2.sub
-                        (v128.and (local.get $mhi) (v128.const f64x2 1 1))
-                        (v128.and (local.get $mlo) (v128.const f64x2 1 1)))))
-                    (local.set $again (i32.const 1))))
-                (local.set $m2 (f64x2.add (f64x2.mul (local.get $gr) (local.get $gr)) (f64x2.mul (local.get $gi) (local.get $gi))))
-                (local.set $mhi (v128.and
-                  (f64x2.gt (local.get $m2) (v128.const f64x2 1e100 1e100))
-                  (f64x2.lt (local.get $m2) (v128.const f64x2 inf inf))))
-                (local.set $mlo (v128.and
-                  (f64x2.lt (local.get $m2) (v128.const f64x2 1e-100 1e-100))
-                  (f64x2.gt (local.get $m2) (v128.const f64x2 0 0))))
-                (if (v128.any_true (v128.or (local.get $mhi) (local.get $mlo)))
-                  (then
-                    (local.set $f (v128.bitselect (v128.const f64x2 0x1p166 0x1p166)
-                      (v128.bitselect (v128.const f64x2 0x1p-166 0x1p-166) (v128.const f64x2 1 1) (local.get $mhi))
-                      (local.get $mlo)))
-                    (local.set $gr (f64x2.mul (local.get $gr) (local.get $f)))
-                    (local.set $gi (f64x2.mul (local.get $gi) (local.get $f)))
-                    (local.set $hr (f64x2.mul (local.get $hr) (local.get $f)))
-                    (local.set $hi (f64x2.mul (local.get $hi) (local.get $f)))
-                    (v128.store (local.get $cg) (f64x2.add (v128.load (local.get $cg))
-                      (f64x2.sub
-                        (v128.and (local.get $mhi) (v128.const f64x2 1 1))
-                        (v128.and (local.get $mlo) (v128.const f64x2 1 1)))))
-                    (local.set $again (i32.const 1))))
-))
+                    (local.set $mhi (v128.and
+                      (f64x2.gt (local.get $m2) (v128.const f64x2 1e100 1e100))
+                      (f64x2.lt (local.get $m2) (v128.const f64x2 inf inf))))
+                    (local.set $mlo (v128.and
+                      (f64x2.lt (local.get $m2) (v128.const f64x2 1e-100 1e-100))
+                      (f64x2.gt (local.get $m2) (v128.const f64x2 0 0))))
+                    (if (v128.any_true (v128.or (local.get $mhi) (local.get $mlo)))
+                      (then
+                        (local.set $f (v128.bitselect (v128.const f64x2 0x1p166 0x1p166)
+                          (v128.bitselect (v128.const f64x2 0x1p-166 0x1p-166) (v128.const f64x2 1 1) (local.get $mhi))
+                          (local.get $mlo)))
+                        (local.set $pr (f64x2.mul (local.get $pr) (local.get $f)))
+                        (local.set $pi (f64x2.mul (local.get $pi) (local.get $f)))
+                        (local.set $qr (f64x2.mul (local.get $qr) (local.get $f)))
+                        (local.set $qi (f64x2.mul (local.get $qi) (local.get $f)))
+                        (v128.store (local.get $cp) (f64x2.add (v128.load (local.get $cp))
+                          (f64x2.sub
+                            (v128.and (local.get $mhi) (v128.const f64x2 1 1))
+                            (v128.and (local.get $mlo) (v128.const f64x2 1 1)))))
+                        (local.set $again (i32.const 1))))
+                    (local.set $mhi (v128.and
+                      (f64x2.gt (local.get $m2g) (v128.const f64x2 1e100 1e100))
+                      (f64x2.lt (local.get $m2g) (v128.const f64x2 inf inf))))
+                    (local.set $mlo (v128.and
+                      (f64x2.lt (local.get $m2g) (v128.const f64x2 1e-100 1e-100))
+                      (f64x2.gt (local.get $m2g) (v128.const f64x2 0 0))))
+                    (if (v128.any_true (v128.or (local.get $mhi) (local.get $mlo)))
+                      (then
+                        (local.set $f (v128.bitselect (v128.const f64x2 0x1p166 0x1p166)
+                          (v128.bitselect (v128.const f64x2 0x1p-166 0x1p-166) (v128.const f64x2 1 1) (local.get $mhi))
+                          (local.get $mlo)))
+                        (local.set $gr (f64x2.mul (local.get $gr) (local.get $f)))
+                        (local.set $gi (f64x2.mul (local.get $gi) (local.get $f)))
+                        (local.set $hr (f64x2.mul (local.get $hr) (local.get $f)))
+                        (local.set $hi (f64x2.mul (local.get $hi) (local.get $f)))
+                        (v128.store (local.get $cg) (f64x2.add (v128.load (local.get $cg))
+                          (f64x2.sub
+                            (v128.and (local.get $mhi) (v128.const f64x2 1 1))
+                            (v128.and (local.get $mlo) (v128.const f64x2 1 1)))))
+                        (local.set $again (i32.const 1))))))))
             (br $sections)))
         ;; Both products inside the window before dividing.
         (local.set $step (i32.const 0))
