@@ -59,6 +59,13 @@ export interface DiagnosticValues {
   'no-such-output': { outputId: string };
   'rate-range': { minHz: number; maxHz: number };
   'rate-misfit': { sampleRateHz: number; nyquistHz: number; misfits: RateMisfit[] };
+  // notes of an export list (src/export/list.ts); `from` is the designed section's source ("woofer/b2")
+  'export-redesigned': { boardHz: number; planHz: number };
+  'export-raw-rate': { bands: string[] };
+  'export-scaling-level': { levelDb: number };
+  'export-unstable': { sections: { outputId: string; index: number; from: string }[] };
+  'export-saturated': { sections: { outputId: string; index: number; names: string[] }[] };
+  'export-gain-saturated': { outputIds: string[] };
 }
 
 export type DiagnosticCode = keyof DiagnosticValues;
@@ -117,6 +124,13 @@ const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
   'no-such-band': (d) => `no band ${d.values.bandId}`,
   'no-such-output': (d) => `no output ${d.values.outputId}`,
   'rate-range': (d) => `sample rate must be ${d.values.minHz} to ${d.values.maxHz} Hz`,
+  'export-redesigned': (d) => `redesigned at the board's ${d.values.boardHz} Hz (the plan is at ${d.values.planHz} Hz): every band keeps its frequency, gain and Q`,
+  'export-raw-rate': (d) => `raw bands keep their coefficients, so their response moves with the rate: ${d.values.bands.join(', ')}`,
+  'export-scaling-level': (d) =>
+    `output "${targetPath(d.target)}": the suggested scaling leaves the output ${d.values.levelDb.toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`,
+  'export-unstable': (d) => `UNSTABLE after quantization: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.from})`).join(', ')}`,
+  'export-saturated': (d) => `saturated coefficients: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
+  'export-gain-saturated': (d) => `output gain saturated: ${d.values.outputIds.join(', ')}`,
   'rate-misfit': (d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';

@@ -3,6 +3,7 @@
  * branch of `response --quantize Qm.n`. Registered in run.ts's COMMANDS.
  */
 import { designPlan } from '../design/chain';
+import { diagnosticMessage } from '../diagnostics';
 import { exportSection, buildExportList, type ExportList } from '../export/list';
 import { EXPORT_FORMATS, formatExport, type ExportFormat } from '../export/format';
 import { importedPlan, parseCoefficientList, type ImportFormat } from '../export/import';
@@ -38,7 +39,7 @@ export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): 
 
 /** Warnings printed before an export: saturation, instability, notes of the list. */
 export function exportWarnings(list: ExportList): string[] {
-  return list.notes.map((n) => `warning: ${n}`);
+  return list.notes.map((n) => `warning: ${diagnosticMessage(n)}`);
 }
 
 export function cmdExport(argv: string[], io: CliIo): CliResult {

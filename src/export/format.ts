@@ -6,6 +6,7 @@
  */
 import type { ExportList, ExportOutput, ExportSection, WrittenNumber } from './list';
 import { profileToJson } from '../plan/write';
+import { diagnosticMessage } from '../diagnostics';
 import { describeProfile, effectiveOrder } from './profiles';
 import { qName } from './fixed';
 
@@ -131,7 +132,7 @@ export function exportJson(list: ExportList): string {
   const doc = {
     format: COEFFICIENTS_FORMAT,
     plan: list.planName,
-    notes: list.notes,
+    notes: list.notes.map(diagnosticMessage),
     sampleRate: list.sampleRate,
     profile: profileToJson(list.profile),
     convention: conventionLines(list).slice(4),

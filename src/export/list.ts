@@ -20,6 +20,7 @@
  * number format without the pre-scaling (it is not a coefficient).
  */
 import { poleRadius } from '../analysis/poles';
+import { diagnostic, type Diagnostic } from '../diagnostics';
 import { designPlan, outputGain, type SourcedSection } from '../design/chain';
 import { scaleNumerator, type Section } from '../design/section';
 import { readPlanValue } from '../plan/read';
@@ -88,9 +89,11 @@ export interface ExportList {
   planSampleRate: number;
   redesigned: boolean;
   /** Things the user should know that do not stop the export. */
-  notes: string[];
+  notes: ExportNote[];
   outputs: ExportOutput[];
 }
+
+export type ExportNote = Diagnostic<'export-redesigned' | 'export-raw-rate' | 'export-scaling-level' | 'export-unstable' | 'export-saturated' | 'export-gain-saturated'>;
 
 export interface ExportProblem {
   code: 'budget' | 'sample-rate' | 'delay';
@@ -136,15 +139,16 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
   if (!at.ok) return { ok: false, problems: [at.problem] };
   const p = at.plan;
   const fs = p.sampleRate;
-  const notes: string[] = [];
+  const notes: ExportNote[] = [];
+  const PLAN = { kind: 'plan' } as const;
   const redesigned = fs !== plan.sampleRate;
   if (redesigned) {
-    notes.push(`redesigned at the board's ${fs} Hz (the plan is at ${plan.sampleRate} Hz): every band keeps its frequency, gain and Q`);
+    notes.push(diagnostic('export-redesigned', 'info', PLAN, { boardHz: fs, planHz: plan.sampleRate }));
     const raws = [
       ...p.input.bands.filter((b) => b.type === 'raw').map((b) => `input/${b.id}`),
       ...p.outputs.flatMap((o) => o.bands.filter((b) => b.type === 'raw').map((b) => `${o.id}/${b.id}`)),
     ];
-    if (raws.length > 0) notes.push(`raw bands keep their coefficients, so their response moves with the rate: ${raws.join(', ')}`);
+    if (raws.length > 0) notes.push(diagnostic('export-raw-rate', 'warning', PLAN, { bands: raws }));
   }
   const designed = designPlan(p);
   const problems: ExportProblem[] = [];
@@ -181,7 +185,7 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
       sections = sug.order.map((j, k) => ({ ...sug.sections[k], from: sections[j].from }));
       if (sug.levelChangeDb < 0) {
         if (profile.gain === 'separate') outGain = gain * Math.pow(10, -sug.levelChangeDb / 20);
-        else notes.push(`output "${o.id}": the suggested scaling leaves the output ${(-sug.levelChangeDb).toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`);
+        else notes.push(diagnostic('export-scaling-level', 'info', { kind: 'output', outputId: o.id }, { levelDb: -sug.levelChangeDb }));
       }
     }
     const writtenGain = profile.gain === 'separate' ? writeNumber(outGain, profile) : null;
@@ -195,12 +199,12 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
     });
   });
   if (problems.length > 0) return { ok: false, problems };
-  const unstable = outputs.flatMap((o) => o.sections.filter((s) => !s.stable).map((s) => `${o.id} section ${s.index} (${s.from})`));
-  if (unstable.length > 0) notes.push(`UNSTABLE after quantization: ${unstable.join(', ')}`);
-  const saturated = outputs.flatMap((o) => o.sections.filter((s) => s.saturated.length > 0).map((s) => `${o.id} section ${s.index} (${s.saturated.join(', ')})`));
-  if (saturated.length > 0) notes.push(`saturated coefficients: ${saturated.join('; ')}`);
+  const unstable = outputs.flatMap((o) => o.sections.filter((s) => !s.stable).map((s) => ({ outputId: o.id, index: s.index, from: s.from })));
+  if (unstable.length > 0) notes.push(diagnostic('export-unstable', 'danger', PLAN, { sections: unstable }));
+  const saturated = outputs.flatMap((o) => o.sections.filter((s) => s.saturated.length > 0).map((s) => ({ outputId: o.id, index: s.index, names: [...s.saturated] })));
+  if (saturated.length > 0) notes.push(diagnostic('export-saturated', 'warning', PLAN, { sections: saturated }));
   const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none').map((o) => o.id);
-  if (gainSat.length > 0) notes.push(`output gain saturated: ${gainSat.join(', ')}`);
+  if (gainSat.length > 0) notes.push(diagnostic('export-gain-saturated', 'warning', PLAN, { outputIds: gainSat }));
   return { ok: true, list: { planName: plan.name, profile, sampleRate: fs, planSampleRate: plan.sampleRate, redesigned, notes, outputs } };
 }
 

@@ -15,6 +15,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
+import { diagnosticMessage } from '../../src/diagnostics';
 import { describe, expect, it } from 'vitest';
 import { buildExportList, type ExportList } from '../../src/export/list';
 import { compareOutput, quantizeProfile } from '../../src/export/quantized';
@@ -114,7 +115,8 @@ describe('saturation and instability are flagged per section', () => {
     // a1 of a 32 Hz high-pass is about -1.996: written as -a1 = +1.996 it saturates high, as a1 low.
     expect(s.written.find((w) => w.name === 'a1')!.number.saturation).toBe('high');
     expect(plain.outputs[0].sections[0].written.find((w) => w.name === 'a1')!.number.saturation).toBe('low');
-    expect(negated.notes.join('\n')).toMatch(/saturated coefficients: woofer section 1 \(b1, a1\)/);
+    expect(negated.notes.map(diagnosticMessage).join('\n')).toMatch(/saturated coefficients: woofer section 1 \(b1, a1\)/);
+    expect(negated.notes.find((n) => n.code === 'export-saturated')?.severity).toBe('warning');
   });
 
   it('flags a section that quantization makes unstable (pole moved onto the unit circle)', () => {
@@ -129,7 +131,11 @@ describe('saturation and instability are flagged per section', () => {
     expect(s.quantized.a2).toBe(1);
     expect(s.poleRadius).toBeGreaterThanOrEqual(1);
     expect(s.stable).toBe(false);
-    expect(l.notes.join('\n')).toMatch(/UNSTABLE after quantization: .*woofer\/res/);
+    expect(l.notes.map(diagnosticMessage).join('\n')).toMatch(/UNSTABLE after quantization: .*woofer\/res/);
+    // The app marks it by severity, not by the words of the note.
+    const unstable = l.notes.find((n) => n.code === 'export-unstable');
+    expect(unstable?.severity).toBe('danger');
+    if (unstable?.code === 'export-unstable') expect(unstable.values.sections).toContainEqual({ outputId: 'woofer', index: s.index, from: 'woofer/res' });
   });
 
   it('a float profile changes nothing: quantized equals ideal, zero error', () => {

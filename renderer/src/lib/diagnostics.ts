@@ -79,6 +79,13 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
   'no-such-band': () => 'that band no longer exists',
   'no-such-output': () => 'that output no longer exists',
   'rate-range': (_plan, d) => `the sample rate must be ${fmtHz(d.values.minHz)} to ${fmtHz(d.values.maxHz)}`,
+  'export-redesigned': (_plan, d) => `redesigned at the board's ${fmtHz(d.values.boardHz)} (the plan is at ${fmtHz(d.values.planHz)}): every band keeps its frequency, gain and Q`,
+  'export-raw-rate': (plan, d) => `raw bands keep their coefficients, so their response moves with the rate: ${d.values.bands.map((from) => sourceName(plan, from)).join(', ')}`,
+  'export-scaling-level': (plan, d) =>
+    `${targetText(plan, d.target)}: the suggested scaling leaves the output ${d.values.levelDb.toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`,
+  'export-unstable': (plan, d) => `unstable after quantization: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${sectionSource(plan, s.from)})`).join(', ')}`,
+  'export-saturated': (plan, d) => `saturated coefficients: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
+  'export-gain-saturated': (plan, d) => `output gain saturated: ${d.values.outputIds.map((id) => outputName(plan, id)).join(', ')}`,
   'rate-misfit': (plan, d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';
@@ -104,6 +111,13 @@ export function diagnosticSelection(d: Diagnostic): [string, string | null] | nu
   if (t.kind === 'band') return [t.chain, t.bandId];
   if (t.kind === 'output' || t.kind === 'edge') return [t.outputId, null];
   return null;
+}
+
+/** A section source with its chain: "input band 2", "Woofer band 1", "Woofer high-pass edge". */
+function sourceName(plan: Plan, from: string): string {
+  const chain = from.split('/')[0];
+  const part = sectionSource(plan, from);
+  return chain === 'input' || part === from ? part : `${outputName(plan, chain)} ${part}`;
 }
 
 /** Where a designed section came from ("sub/highPass", "input/b1") as the user knows it. */
