@@ -295,6 +295,19 @@ describe('text typed but not applied', () => {
 });
 
 describe('files through the host', () => {
+  it('a download is reported as a download the browser does not confirm, never as "Saved"', async () => {
+    await start();
+    host.savePlanAs = async (plan: Plan) => {
+      host.saved.push({ plan, path: null });
+      return { ok: true as const, value: 'monitor.bqplan', downloaded: true };
+    };
+    host.menu!('save');
+    for (let i = 0; i < 5; i++) await tick();
+    expect(host.saved).toHaveLength(1);
+    expect(view.notice?.text).toMatch(/^Downloaded monitor\.bqplan\. The browser does not confirm it was written/);
+    expect(view.notice?.text).not.toMatch(/Saved/);
+  });
+
   it('a broken file is refused with the reader message and the open plan stays', async () => {
     await start();
     const before = doc.plan;
