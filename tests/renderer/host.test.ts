@@ -252,6 +252,8 @@ describe('browser host: saving', () => {
     const full = browserHost({ showSaveFilePicker: null, storage: new SmallStorage(10) });
     const r2 = await full.savePlan(plan, null);
     expect(r2.ok && r2.downloaded && r2.note).toMatch(/no copy was kept/);
+    // Exports are downloads too, and say so.
+    expect(await host.saveText('x.txt', 'b0', ['txt'])).toEqual({ ok: true, value: 'x.txt', downloaded: true });
   });
 
   it('with the browser save dialog it writes through the file handle; the next save reuses it', async () => {

@@ -24,11 +24,12 @@ export type SaveResult = { ok: true; value: string; downloaded?: boolean; note?:
 export type OpenResult = { ok: true; value: PlanDocument; note?: string } | { ok: false; error: string } | { ok: false; cancelled: true };
 
 /** The host as the renderer sees it: the preload's API (less the menu-only Open Recent) and the clipboard. */
-export interface Host extends Omit<DesktopApi, 'openRecent' | 'openPlan' | 'savePlan' | 'savePlanAs'> {
+export interface Host extends Omit<DesktopApi, 'openRecent' | 'openPlan' | 'savePlan' | 'savePlanAs' | 'saveText'> {
   readonly kind: 'desktop' | 'browser';
   openPlan(): Promise<OpenResult>;
   savePlan(plan: Plan, path: string | null): Promise<SaveResult>;
   savePlanAs(plan: Plan, suggestedPath: string | null): Promise<SaveResult>;
+  saveText(suggestedName: string, text: string, extensions: string[]): Promise<SaveResult>;
   copyText(text: string): Promise<HostResult<true>>;
 }
 
@@ -430,7 +431,7 @@ export function browserHost(options: BrowserHostOptions = {}): Host {
     },
     async saveText(name, text) {
       download(name, text, 'text/plain');
-      return { ok: true, value: name };
+      return { ok: true, value: name, downloaded: true };
     },
     copyText: copyWithClipboard,
     onMenuCommand(listener) {

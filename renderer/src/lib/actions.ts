@@ -167,7 +167,7 @@ function loadDocument(d: PlanDocument, opts: { dirty?: boolean } = {}): void {
 }
 
 function confirmDiscard(): boolean {
-  if (!doc.dirty) return true;
+  if (!doc.dirty && !pendingEdits.active) return true;
   return typeof window === 'undefined' || typeof window.confirm !== 'function' ? true : window.confirm('Discard the unsaved changes of this plan?');
 }
 
