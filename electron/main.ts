@@ -81,8 +81,8 @@ interface WindowState {
   initialPath: string | null;
   /** Files the user chose for this window: `savePlan` and `revertPlan` accept only these. */
   readonly granted: Set<string>;
-  /** The plan file as this window last read or wrote it (for `path`): a save checks it first. */
-  disk: DiskFingerprint | null;
+  /** A plan file as this window last read or wrote it: a save to that file checks it first. */
+  disk: { key: string; fingerprint: DiskFingerprint } | null;
   /** Created to offer a crashed session's work: `takeRecovery` hands it one leftover. */
   offersRecovery: boolean;
   /** The leftover offered to this window, kept until the user restores or discards it. */
@@ -349,16 +349,20 @@ async function loadFor(state: WindowState, path: string): Promise<HostResult<Pla
   }
   state.path = path;
   state.name = read.value.plan.name;
-  state.disk = read.value.disk;
+  setDisk(state, path, read.value.disk);
   grant(state, path);
   refreshTitle(state);
   await rememberRecent(path);
   return { ok: true, value: { plan: read.value.plan, path } };
 }
 
-/** Whether `path` is the file this window shows (so its fingerprint applies). */
-function isShownFile(state: WindowState, path: string): boolean {
-  return state.path !== null && pathKey(state.path) === pathKey(path);
+function setDisk(state: WindowState, path: string, fingerprint: DiskFingerprint | null): void {
+  state.disk = fingerprint ? { key: pathKey(path), fingerprint } : null;
+}
+
+/** What this window last saw of the file at `path`, if it read or wrote that file. */
+function diskOf(state: WindowState, path: string): DiskFingerprint | undefined {
+  return state.disk && state.disk.key === pathKey(path) ? state.disk.fingerprint : undefined;
 }
 
 /**
@@ -366,7 +370,7 @@ function isShownFile(state: WindowState, path: string): boolean {
  * and another program changed it since, asks: overwrite, reload from disk, save as, or cancel.
  */
 async function savePlanTo(state: WindowState, plan: Plan, path: string, checkDisk: boolean): Promise<HostResult<string>> {
-  const expected = checkDisk && isShownFile(state, path) && state.disk ? state.disk : undefined;
+  const expected = checkDisk ? diskOf(state, path) : undefined;
   let saved = await savePlanFileChecked(path, plan, { expected });
   if (!saved.ok && saved.changedOnDisk !== undefined) {
     const prompt = changedOnDiskPrompt(basename(path), saved.changedOnDisk === null);
@@ -391,7 +395,7 @@ async function savePlanTo(state: WindowState, plan: Plan, path: string, checkDis
   if (!saved.ok) return { ok: false, error: saved.error };
   state.path = path;
   state.name = saved.value.name;
-  state.disk = saved.disk;
+  setDisk(state, path, saved.disk);
   grant(state, path);
   await recovery.remove(state.id).catch(() => undefined);
   await rememberRecent(path);
@@ -530,7 +534,7 @@ function registerIpc(): void {
     if (!d.ok) refused(IPC.autosave, d.error);
     // Main records whether the path is one the user chose for this window; the page cannot say so.
     const granted = d.value.path !== null && isGranted(state, d.value.path);
-    await recovery.write(state.id, d.value, { pathGranted: granted, disk: granted && isShownFile(state, d.value.path!) ? state.disk : null });
+    await recovery.write(state.id, d.value, { pathGranted: granted, disk: granted ? (diskOf(state, d.value.path!) ?? null) : null });
   });
 
   handle(IPC.takeRecovery, 0, async (state) => {
@@ -558,7 +562,7 @@ function registerIpc(): void {
     if (doc.path !== null) {
       grant(state, doc.path);
       state.path = doc.path;
-      state.disk = meta.disk;
+      setDisk(state, doc.path, meta.disk);
       refreshTitle(state);
     }
     await recovery.restoreLeftover(offered.name, state.id, doc, { pathGranted: doc.path !== null, disk: meta.disk });

@@ -295,6 +295,30 @@ describe('text typed but not applied', () => {
 });
 
 describe('files through the host', () => {
+  it('reload (chosen in the desktop changed-on-disk question) re-reads the file without asking again', async () => {
+    host.initial = { ok: true, value: { plan: read(hallText), path: '/plans/hall.bqplan' } };
+    await start();
+    doc.apply({ ok: true, plan: { ...doc.plan, name: 'Mine' } });
+    let asked = 0;
+    const confirm = window.confirm;
+    window.confirm = () => (asked++, false);
+    try {
+      host.menu!('reload');
+      for (let i = 0; i < 5; i++) await tick();
+      expect(asked).toBe(0);
+      expect(doc.plan.name).toBe(read(demoText).name); // what FakeHost.revertPlan reads "from disk"
+      expect(doc.dirty).toBe(false);
+      // The menu's own Revert still asks.
+      doc.apply({ ok: true, plan: { ...doc.plan, name: 'Mine' } });
+      host.menu!('revert');
+      for (let i = 0; i < 5; i++) await tick();
+      expect(asked).toBe(1);
+      expect(doc.plan.name).toBe('Mine');
+    } finally {
+      window.confirm = confirm;
+    }
+  });
+
   it('a download is reported as a download the browser does not confirm, never as "Saved"', async () => {
     await start();
     host.savePlanAs = async (plan: Plan) => {
