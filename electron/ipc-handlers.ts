@@ -42,8 +42,6 @@ export interface IpcHost {
   savePlanWithDialog(state: WindowState, plan: Plan, suggestedPath: string | null): Promise<HostResult<string>>;
   /** Runs a save call; the close prompt's "save, then close" request is answered by it. */
   saveCall(state: WindowState, run: () => Promise<HostResult<string>>): Promise<HostResult<string>>;
-  /** Whether `path` is the file the window shows (its disk fingerprint applies). */
-  isShownFile(state: WindowState, path: string): boolean;
   bringToFront(state: WindowState): void;
   refreshTitle(state: WindowState): void;
 }
@@ -145,7 +143,7 @@ export function registerIpc(host: IpcHost): void {
     if (!d.ok) refused(IPC.autosave, d.error);
     // Main records whether the path is one the user chose for this window; the page cannot say so.
     const granted = d.value.path !== null && windows.isGranted(state, d.value.path);
-    await host.recovery().write(state.id, d.value, { pathGranted: granted, disk: granted && host.isShownFile(state, d.value.path!) ? state.disk : null });
+    await host.recovery().write(state.id, d.value, { pathGranted: granted, disk: granted ? (windows.diskOf(state, d.value.path!) ?? null) : null });
   });
 
   handle(IPC.takeRecovery, 0, async (state) => {
@@ -172,7 +170,7 @@ export function registerIpc(host: IpcHost): void {
     if (doc.path !== null) {
       windows.grant(state, doc.path);
       state.path = doc.path;
-      state.disk = meta.disk;
+      windows.setDisk(state, doc.path, meta.disk);
       host.refreshTitle(state);
     }
     await host.recovery().restoreLeftover(offered.name, state.id, doc, { pathGranted: doc.path !== null, disk: meta.disk });

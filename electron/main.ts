@@ -251,16 +251,11 @@ async function loadFor(state: WindowState, path: string): Promise<HostResult<Pla
   }
   state.path = path;
   state.name = read.value.plan.name;
-  state.disk = read.value.disk;
+  windows.setDisk(state, path, read.value.disk);
   windows.grant(state, path);
   refreshTitle(state);
   await rememberRecent(path);
   return { ok: true, value: { plan: read.value.plan, path } };
-}
-
-/** Whether `path` is the file this window shows (so its fingerprint applies). */
-function isShownFile(state: WindowState, path: string): boolean {
-  return state.path !== null && windows.pathKey(state.path) === windows.pathKey(path);
 }
 
 /**
@@ -268,7 +263,7 @@ function isShownFile(state: WindowState, path: string): boolean {
  * and another program changed it since, asks: overwrite, reload from disk, save as, or cancel.
  */
 async function savePlanTo(state: WindowState, plan: Plan, path: string, checkDisk = true): Promise<HostResult<string>> {
-  const expected = checkDisk && isShownFile(state, path) && state.disk ? state.disk : undefined;
+  const expected = checkDisk ? windows.diskOf(state, path) : undefined;
   let saved = await savePlanFileChecked(path, plan, { expected });
   if (!saved.ok && saved.changedOnDisk !== undefined) {
     const prompt = changedOnDiskPrompt(basename(path), saved.changedOnDisk === null);
@@ -293,7 +288,7 @@ async function savePlanTo(state: WindowState, plan: Plan, path: string, checkDis
   if (!saved.ok) return { ok: false, error: saved.error };
   state.path = path;
   state.name = saved.value.name;
-  state.disk = saved.disk;
+  windows.setDisk(state, path, saved.disk);
   windows.grant(state, path);
   await recovery.remove(state.id).catch(() => undefined);
   await rememberRecent(path);
@@ -341,7 +336,6 @@ async function start(): Promise<void> {
     savePlanTo,
     savePlanWithDialog,
     saveCall,
-    isShownFile,
     bringToFront,
     refreshTitle,
   });

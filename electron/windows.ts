@@ -20,8 +20,8 @@ export interface WindowState {
   initialPath: string | null;
   /** Files the user chose for this window: `savePlan` and `revertPlan` accept only these. */
   readonly granted: Set<string>;
-  /** The plan file as this window last read or wrote it (for `path`): a save checks it first. */
-  disk: DiskFingerprint | null;
+  /** A plan file as this window last read or wrote it: a save to that file checks it first. */
+  disk: { key: string; fingerprint: DiskFingerprint } | null;
   /** Created to offer a crashed session's work: `takeRecovery` hands it one leftover. */
   offersRecovery: boolean;
   /** The leftover offered to this window, kept until the user restores or discards it. */
@@ -83,6 +83,16 @@ export class WindowRegistry {
 
   isGranted(state: WindowState, path: string): boolean {
     return state.granted.has(this.pathKey(path));
+  }
+
+  /** Records what this window last saw of the file at `path` (null: nothing known). */
+  setDisk(state: WindowState, path: string, fingerprint: DiskFingerprint | null): void {
+    state.disk = fingerprint ? { key: this.pathKey(path), fingerprint } : null;
+  }
+
+  /** What this window last saw of the file at `path`, if it read or wrote that file. */
+  diskOf(state: WindowState, path: string): DiskFingerprint | undefined {
+    return state.disk && state.disk.key === this.pathKey(path) ? state.disk.fingerprint : undefined;
   }
 
   /** The window that shows `path`, if any (one window per plan). */

@@ -80,6 +80,8 @@ async function main() {
   const errors = [];
   try {
     const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, acceptDownloads: true });
+    // Saves here go through the download fallback; the browser save dialog has its own check below.
+    await context.addInitScript(() => Object.defineProperty(window, 'showSaveFilePicker', { value: undefined, configurable: true }));
     const page = await context.newPage();
     page.on('console', (m) => {
       if (m.type() === 'error' || m.type() === 'warning') errors.push(`console ${m.type()}: ${m.text()}`);
@@ -251,6 +253,8 @@ async function main() {
       const current = await plan();
       assert(JSON.stringify(r.plan) === JSON.stringify(current), 'saved plan differs from the plan on screen');
       assert(!(await hook(() => window.__biquadrant.dirty())), 'still marked unsaved after saving');
+      const said = await page.getByTestId('notice').innerText();
+      assert(/^Downloaded .*does not confirm/.test(said) && !/Saved/.test(said), `a download reported as: ${said}`);
       assert((await page.getByTestId('dirty-mark').count()) === 0, 'unsaved mark shown after saving');
       // Change something, then reopen the saved file.
       await page.keyboard.press('ArrowUp');
@@ -401,26 +405,146 @@ async function main() {
       await page.screenshot({ path: `${OUT}/12-three-way-1000.png` });
     });
 
-    await check('unsaved work is autosaved when idle and offered back after a reload', async () => {
+    const slotKeys = () => hook(() => Object.keys(localStorage).filter((k) => k.startsWith('biquadrant.recovery.v2.')));
+
+    await check('unsaved work is autosaved when idle, offered after a reload, and kept until Restore (a second reload offers it again)', async () => {
       await page.getByTestId('chain-input').click();
       await page.getByTestId('band-row').nth(0).click();
       await page.getByTestId('band-frequency').fill('27');
       await page.getByTestId('band-frequency').press('Enter');
       const edited = await plan();
       assert(await hook(() => window.__biquadrant.dirty()), 'edit not marked unsaved');
-      await page.waitForFunction(() => localStorage.getItem('biquadrant.recovery.v1') !== null, null, { timeout: 8000 });
+      await page.waitForFunction(() => Object.keys(localStorage).some((k) => k.startsWith('biquadrant.recovery.v2.')), null, { timeout: 8000 });
       const onDialog = (d) => d.accept(); // the "leave with unsaved changes?" prompt
       page.on('dialog', onDialog);
       await page.reload();
-      page.off('dialog', onDialog);
       const banner = page.getByTestId('recovery');
       await banner.waitFor();
       assert((await banner.innerText()).includes(edited.name), 'banner does not name the plan');
+      await page.screenshot({ path: `${OUT}/13-recovery-banner.png` });
+      // Reload again before answering: the work is still there and offered again.
+      await page.reload();
+      page.off('dialog', onDialog);
+      await banner.waitFor();
+      assert((await banner.innerText()).includes(edited.name), 'a reload before Restore lost the recovered work');
       await banner.getByRole('button', { name: 'Restore it' }).click();
       assert(JSON.stringify(await plan()) === JSON.stringify(edited), 'restored plan differs');
       assert(await hook(() => window.__biquadrant.dirty()), 'restored work should stay unsaved');
+      assert((await slotKeys()).length === 1, `after Restore the work should sit in this tab's slot only: ${await slotKeys()}`);
       await page.waitForFunction(() => window.__biquadrant.plotted()?.magnitude.length > 0);
       comparePlotted(await plotted(), edited);
+    });
+
+    await check('a value typed without Enter is in the file Ctrl+S writes', async () => {
+      await page.getByTestId('chain-input').click();
+      await page.getByTestId('band-row').nth(0).click();
+      const f = page.getByTestId('band-frequency');
+      await f.fill('31');
+      assert(await page.getByTestId('dirty-mark').isVisible(), 'typed text does not count as unsaved');
+      const download = page.waitForEvent('download');
+      await page.keyboard.press('Control+s');
+      const d = await download;
+      const r = readPlanText(readFileSync(await d.path(), 'utf8'));
+      assert(r.ok && r.plan.input.bands[0].frequency === 31, `saved file has ${r.ok && r.plan.input.bands[0].frequency} Hz, typed 31`);
+      assert((await plan()).input.bands[0].frequency === 31, 'typed value not applied to the plan');
+      assert(!(await hook(() => window.__biquadrant.dirty())), 'still unsaved after the save');
+      // Leaving the field is not a second edit.
+      await page.getByTestId('band-row').nth(0).click();
+      assert(!(await hook(() => window.__biquadrant.dirty())), 'leaving the field after the save made a new edit');
+      await page.screenshot({ path: `${OUT}/14-typed-then-saved.png` });
+    });
+
+    await check('two tabs: a tab cannot take another open tab\'s unsaved work; once that tab is gone it is offered', async () => {
+      const open = async () => {
+        const p = await context.newPage();
+        await p.goto(server.url);
+        await p.waitForFunction(() => window.__biquadrant?.plotted()?.magnitude.length > 0);
+        return p;
+      };
+      const before = await slotKeys();
+      const tabB = await open();
+      await tabB.getByTestId('band-row').nth(1).click();
+      await tabB.keyboard.press('ArrowUp');
+      await tabB.waitForFunction((n) => Object.keys(localStorage).filter((k) => k.startsWith('biquadrant.recovery.v2.')).length > n, before.length, { timeout: 8000 });
+      const tabC = await open();
+      await tabC.waitForTimeout(300);
+      assert((await tabC.getByTestId('recovery').count()) === 0, 'tab C was offered the work of tab B, which is still open');
+      await tabC.close();
+      await tabB.close(); // gone without saving (as a crash)
+      const tabD = await open();
+      const banner = tabD.getByTestId('recovery');
+      await banner.waitFor();
+      await tabD.screenshot({ path: `${OUT}/15-recovery-other-tab.png` });
+      await banner.getByRole('button', { name: 'Discard' }).click();
+      await tabD.close();
+      const tabE = await open();
+      await tabE.waitForTimeout(300);
+      assert((await tabE.getByTestId('recovery').count()) === 0, 'discarded work offered again');
+      await tabE.close();
+    });
+
+    await check('with the browser save dialog, Save writes through its file handle and says Saved', async () => {
+      const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+      await ctx.addInitScript(() => {
+        window.__written = [];
+        window.__asked = 0;
+        window.showSaveFilePicker = async (o) => {
+          window.__asked++;
+          return {
+            name: 'hall.bqplan',
+            createWritable: async () => ({ write: async (d) => void window.__written.push(d), close: async () => undefined }),
+            getFile: async () => ({ text: async () => window.__written.at(-1) }),
+            suggested: o.suggestedName,
+          };
+        };
+      });
+      const p = await ctx.newPage();
+      await p.goto(server.url);
+      await p.waitForFunction(() => window.__biquadrant?.plotted()?.magnitude.length > 0);
+      await p.getByTestId('save').click();
+      await p.getByTestId('notice').filter({ hasText: 'Saved hall.bqplan.' }).waitFor();
+      await p.getByTestId('band-row').nth(1).click();
+      await p.keyboard.press('ArrowUp');
+      await p.keyboard.press('Control+s');
+      await p.waitForFunction(() => window.__written.length === 2);
+      const asked = await p.evaluate(() => window.__asked);
+      assert(asked === 1, `the save dialog was shown ${asked} times; the second save should reuse the file`);
+      const r = readPlanText(await p.evaluate(() => window.__written[1]));
+      assert(r.ok && JSON.stringify(r.plan) === JSON.stringify(await p.evaluate(() => window.__biquadrant.plan())), 'written file differs from the plan');
+      await p.screenshot({ path: `${OUT}/16-saved-through-dialog.png` });
+      await ctx.close();
+    });
+
+    await check('storage full: autosave failure is shown, not silent', async () => {
+      const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+      const p = await ctx.newPage();
+      await p.goto(server.url);
+      await p.waitForFunction(() => window.__biquadrant?.plotted()?.magnitude.length > 0);
+      await p.evaluate(() => {
+        const chunk = 'x'.repeat(256 * 1024);
+        for (let i = 0; ; i++) {
+          try {
+            localStorage.setItem(`filler.${i}`, chunk);
+          } catch {
+            break;
+          }
+        }
+        for (let i = 0; ; i++) {
+          try {
+            localStorage.setItem(`small.${i}`, 'x'.repeat(512));
+          } catch {
+            break;
+          }
+        }
+      });
+      await p.getByTestId('band-row').nth(1).click();
+      await p.keyboard.press('ArrowUp');
+      const notice = p.getByTestId('notice').filter({ hasText: 'could not be kept for recovery' });
+      await notice.waitFor({ timeout: 8000 });
+      const text = await notice.innerText();
+      assert(/storage for this site is full/.test(text) && /Save the plan to a file/.test(text), `notice: ${text}`);
+      await p.screenshot({ path: `${OUT}/17-storage-full.png` });
+      await ctx.close();
     });
 
     await check('no console errors or page errors', async () => {

@@ -513,6 +513,22 @@ describe('the plan on disk is not silently replaced', () => {
     expect(JSON.parse(await readFile(other, 'utf8')).name).toBe('Mine');
   });
 
+  it('the check survives a crash: recovered work does not overwrite a file changed since, without asking', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const p = await openedIn(win);
+    await invoke(win, IPC.autosave, [{ plan: { ...plan, name: 'Mine' }, path: p }]);
+    await boot(); // crash
+    const theirs = writePlanText({ ...plan, name: 'Changed elsewhere' });
+    await writeFile(p, theirs);
+    const [next] = fake.windows;
+    expect((await invoke(next, IPC.takeRecovery, [])).path).toBe(p);
+    await invoke(next, IPC.settleRecovery, ['restore']);
+    fake.dialog.messageBox.push(3); // Cancel
+    expect(await invoke(next, IPC.savePlan, [{ ...plan, name: 'Mine' }, p])).toEqual({ ok: false, cancelled: true });
+    expect(await readFile(p, 'utf8')).toBe(theirs);
+  });
+
   it('a read-only plan is refused with a clear message and left as it is', async () => {
     await boot();
     const [win] = fake.windows;

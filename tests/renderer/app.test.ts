@@ -295,6 +295,43 @@ describe('text typed but not applied', () => {
 });
 
 describe('files through the host', () => {
+  it('reload (chosen in the desktop changed-on-disk question) re-reads the file without asking again', async () => {
+    host.initial = { ok: true, value: { plan: read(hallText), path: '/plans/hall.bqplan' } };
+    await start();
+    doc.apply({ ok: true, plan: { ...doc.plan, name: 'Mine' } });
+    let asked = 0;
+    const confirm = window.confirm;
+    window.confirm = () => (asked++, false);
+    try {
+      host.menu!('reload');
+      for (let i = 0; i < 5; i++) await tick();
+      expect(asked).toBe(0);
+      expect(doc.plan.name).toBe(read(demoText).name); // what FakeHost.revertPlan reads "from disk"
+      expect(doc.dirty).toBe(false);
+      // The menu's own Revert still asks.
+      doc.apply({ ok: true, plan: { ...doc.plan, name: 'Mine' } });
+      host.menu!('revert');
+      for (let i = 0; i < 5; i++) await tick();
+      expect(asked).toBe(1);
+      expect(doc.plan.name).toBe('Mine');
+    } finally {
+      window.confirm = confirm;
+    }
+  });
+
+  it('a download is reported as a download the browser does not confirm, never as "Saved"', async () => {
+    await start();
+    host.savePlanAs = async (plan: Plan) => {
+      host.saved.push({ plan, path: null });
+      return { ok: true as const, value: 'monitor.bqplan', downloaded: true };
+    };
+    host.menu!('save');
+    for (let i = 0; i < 5; i++) await tick();
+    expect(host.saved).toHaveLength(1);
+    expect(view.notice?.text).toMatch(/^Downloaded monitor\.bqplan\. The browser does not confirm it was written/);
+    expect(view.notice?.text).not.toMatch(/Saved/);
+  });
+
   it('a broken file is refused with the reader message and the open plan stays', async () => {
     await start();
     const before = doc.plan;

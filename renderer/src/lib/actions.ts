@@ -169,7 +169,7 @@ function loadDocument(d: PlanDocument, opts: { dirty?: boolean } = {}): void {
 }
 
 function confirmDiscard(): boolean {
-  if (!doc.dirty) return true;
+  if (!doc.dirty && !pendingEdits.active) return true;
   return typeof window === 'undefined' || typeof window.confirm !== 'function' ? true : window.confirm('Discard the unsaved changes of this plan?');
 }
 
@@ -184,7 +184,7 @@ export async function openPlan(): Promise<void> {
   const r = await getHost().openPlan();
   if (r.ok) {
     loadDocument(r.value);
-    view.notify('info', `Opened ${doc.fileName ?? 'plan'}.`);
+    view.notify('info', `Opened ${doc.fileName ?? 'plan'}.${r.note ? ` ${r.note}` : ''}`, r.note ? 12000 : undefined);
   } else if (!('cancelled' in r)) view.notify('error', `Not opened, nothing changed. ${r.error}`, 15000);
 }
 
@@ -201,7 +201,12 @@ export async function savePlan(as = false): Promise<boolean> {
   if (r.ok) {
     doc.markSaved(r.value, plan); // edits made while the dialog was open stay unsaved
     await h.discardRecovery();
-    view.notify('info', `Saved ${doc.fileName ?? r.value}.`);
+    const name = doc.fileName ?? r.value;
+    // A download cannot be confirmed by the page: say what happened, not "saved".
+    const said = r.downloaded
+      ? `Downloaded ${name}. The browser does not confirm it was written: check your downloads folder before you close this tab.`
+      : `Saved ${name}.`;
+    view.notify('info', r.note ? `${said} ${r.note}` : said, r.downloaded || r.note ? 12000 : undefined);
     return true;
   }
   if (!('cancelled' in r)) view.notify('error', `Not saved: ${r.error}`, 15000);
