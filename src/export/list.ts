@@ -23,7 +23,7 @@ import { poleRadius } from '../analysis/poles';
 import { designPlan, outputGain, type SourcedSection } from '../design/chain';
 import { scaleNumerator, type Section } from '../design/section';
 import { readPlanValue } from '../plan/read';
-import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
+import { LIMITS, type BoardProfile, type CoefficientName, type Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
 import { fromFixed, toFixed, toHex, type Saturation } from './fixed';
 import { effectiveOrder } from './profiles';
@@ -180,8 +180,17 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
       scales = sug.scales;
       sections = sug.order.map((j, k) => ({ ...sug.sections[k], from: sections[j].from }));
       if (sug.levelChangeDb < 0) {
-        if (profile.gain === 'separate') outGain = gain * Math.pow(10, -sug.levelChangeDb / 20);
-        else notes.push(`output "${o.id}": the suggested scaling leaves the output ${(-sug.levelChangeDb).toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`);
+        if (profile.gain === 'separate') {
+          // The make-up gain stays within the plan's output gain limit (less 0.01 dB for the
+          // number format's rounding), so the list still imports as a plan; the rest is noted.
+          const gainDb = 20 * Math.log10(Math.abs(gain));
+          const makeUpDb = Math.min(-sug.levelChangeDb, LIMITS.outputGainDbAbsMax - 0.01 - gainDb);
+          if (makeUpDb > 0) outGain = gain * Math.pow(10, makeUpDb / 20);
+          const shortDb = -sug.levelChangeDb - Math.max(0, makeUpDb);
+          if (shortDb > 0.005) {
+            notes.push(`output "${o.id}": the suggested scaling leaves the output ${shortDb.toFixed(2)} dB below the design (its gain would pass the plan's ${LIMITS.outputGainDbAbsMax} dB limit)`);
+          }
+        } else notes.push(`output "${o.id}": the suggested scaling leaves the output ${(-sug.levelChangeDb).toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`);
       }
     }
     const writtenGain = profile.gain === 'separate' ? writeNumber(outGain, profile) : null;
