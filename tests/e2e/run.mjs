@@ -270,7 +270,7 @@ async function main() {
       const notice = page.getByTestId('notice');
       await notice.waitFor();
       const text = await notice.innerText();
-      assert(text.includes('outputs[0].bands[0].q: must be > 0'), `notice: ${text}`);
+      assert(text.includes('outputs[0].bands[0].q: must be from 0.01 to 1000'), `notice: ${text}`);
       assert((await notice.getAttribute('role')) === 'alert', 'the refusal is not announced');
       assert(JSON.stringify(await plan()) === JSON.stringify(before), 'plan changed after a broken file');
       await page.screenshot({ path: `${OUT}/05-broken-file.png` });
