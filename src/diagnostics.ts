@@ -63,6 +63,7 @@ export interface DiagnosticValues {
   'export-redesigned': { boardHz: number; planHz: number };
   'export-raw-rate': { bands: string[] };
   'export-scaling-level': { levelDb: number };
+  'export-scaling-short': { levelDb: number; gainLimitDb: number };
   'export-unstable': { sections: { outputId: string; index: number; from: string }[] };
   'export-saturated': { sections: { outputId: string; index: number; names: string[] }[] };
   'export-gain-saturated': { outputIds: string[] };
@@ -128,6 +129,8 @@ const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
   'export-raw-rate': (d) => `raw bands keep their coefficients, so their response moves with the rate: ${d.values.bands.join(', ')}`,
   'export-scaling-level': (d) =>
     `output "${targetPath(d.target)}": the suggested scaling leaves the output ${d.values.levelDb.toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`,
+  'export-scaling-short': (d) =>
+    `output "${targetPath(d.target)}": the suggested scaling leaves the output ${d.values.levelDb.toFixed(2)} dB below the design (its gain would pass the plan's ${d.values.gainLimitDb} dB limit)`,
   'export-unstable': (d) => `UNSTABLE after quantization: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.from})`).join(', ')}`,
   'export-saturated': (d) => `saturated coefficients: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
   'export-gain-saturated': (d) => `output gain saturated: ${d.values.outputIds.join(', ')}`,

@@ -31,8 +31,16 @@ const LIN_POINTS = 512;
 const LOG_LOWEST_FRACTION = 1e-7;
 /** Offsets around a pole or named frequency, in units of its width (1 - r, or a relative 1e-4). */
 const LOCAL_STEPS = [0.125, 0.25, 0.5, 1, 2, 4, 8, 16, 64];
-/** How many of the best local maxima are refined. */
+/** How many of the best local maxima are refined, and how far below the best one they may lie. */
 const REFINED = 6;
+/**
+ * Near a pole the candidates lie 1/8 of the peak's width apart, where a resonance is within
+ * 10 log10(1 + 1/256) = 0.017 dB of its top; away from poles |H| changes slowly. A local maximum
+ * more than 0.5 dB below the best candidate cannot rise above it when refined.
+ */
+const REFINE_WITHIN_DB = 0.5;
+/** Golden-section search stops at this bracket width relative to w (1e-11: 1e-14 dB at a Q 1000 peak). */
+const REFINE_RELATIVE_WIDTH = 1e-11;
 
 /** True when `frequencyHz` lies outside 20 Hz .. 20 kHz. */
 export function outsideAudioBand(frequencyHz: number): boolean {
@@ -70,14 +78,37 @@ export function candidateOmegas(sections: readonly Section[], sampleRateHz: numb
 /** The largest |H| of `sections` times |gain| over 0 Hz .. Nyquist; `hintsHz` are frequencies worth a close look. */
 export function peakSearch(sections: readonly Section[], gain: number, sampleRateHz: number, hintsHz: readonly number[] = []): Peak {
   const gainDb = 20 * Math.log10(Math.abs(gain));
-  const toHz = (w: number) => (w * sampleRateHz) / (2 * Math.PI);
   if (sections.length === 0) return { peakDb: gainDb, frequencyHz: 0 };
-  const packed = packSections(sections);
-  const n = sections.length;
   const omega = candidateOmegas(sections, sampleRateHz, hintsHz);
   const k = allocateKernelOutput(omega.length);
-  cascadeResponse(packed, n, omega, k);
-  const m = k.magnitudeDb;
+  const packed = packSections(sections);
+  cascadeResponse(packed, sections.length, omega, k);
+  const p = refine(packed, sections.length, omega, k.magnitudeDb, sampleRateHz);
+  return { peakDb: p.peakDb + gainDb, frequencyHz: p.frequencyHz };
+}
+
+/**
+ * The peak of every partial cascade: sections 1, 1..2, ..., 1..N (the nodes of a board's
+ * cascade). One candidate set for all (every section's poles: a superset never hurts) and one
+ * pass per section, the partial cascades' dB summed as they grow; each is then refined alone.
+ */
+export function prefixPeakSearch(sections: readonly Section[], sampleRateHz: number): Peak[] {
+  const omega = candidateOmegas(sections, sampleRateHz);
+  const k = allocateKernelOutput(omega.length);
+  const acc = new Float64Array(omega.length);
+  const packed = packSections(sections);
+  const out: Peak[] = [];
+  for (let s = 0; s < sections.length; s++) {
+    cascadeResponse(packed.subarray(s * 5, s * 5 + 5), 1, omega, k);
+    for (let i = 0; i < omega.length; i++) acc[i] += k.magnitudeDb[i];
+    out.push(refine(packed, s + 1, omega, acc, sampleRateHz));
+  }
+  return out;
+}
+
+/** The best candidate of `m` (dB at `omega`), refined by golden-section search around the best local maxima. */
+function refine(packed: Float64Array, n: number, omega: Float64Array, m: Float64Array, sampleRateHz: number): Peak {
+  const toHz = (w: number) => (w * sampleRateHz) / (2 * Math.PI);
   // A NaN (0/0 at a pole-zero pair exactly on the circle) says nothing; +Infinity is a pole on the circle.
   const value = (i: number) => (Number.isNaN(m[i]) ? -Infinity : m[i]);
   let best = 0;
@@ -101,14 +132,15 @@ export function peakSearch(sections: readonly Section[], gain: number, sampleRat
   let peak = value(best);
   let where = omega[best];
   const g = (Math.sqrt(5) - 1) / 2;
-  for (const i of maxima.slice(0, REFINED)) {
+  const worthRefining = maxima.slice(0, REFINED).filter((i) => value(i) >= value(best) - REFINE_WITHIN_DB);
+  for (const i of worthRefining) {
     let a = omega[Math.max(0, i - 1)];
     let b = omega[Math.min(omega.length - 1, i + 1)];
     let c = b - g * (b - a);
     let d = a + g * (b - a);
     let fc = at(c);
     let fd = at(d);
-    for (let it = 0; it < 80 && b - a > 1e-15 * Math.max(1, b); it++) {
+    for (let it = 0; it < 80 && b - a > REFINE_RELATIVE_WIDTH * Math.max(b, 1e-9); it++) {
       if (fc > fd) {
         b = d;
         d = c;
@@ -133,5 +165,7 @@ export function peakSearch(sections: readonly Section[], gain: number, sampleRat
       }
     }
   }
-  return { peakDb: peak + gainDb, frequencyHz: toHz(where) };
+  // The grid value came from summed dB (prefix search) or the cascade: report the cascade's own.
+  if (where === omega[best] && Number.isFinite(peak)) peak = at(where);
+  return { peakDb: peak, frequencyHz: toHz(where) };
 }

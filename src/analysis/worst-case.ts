@@ -9,8 +9,8 @@
  *
  * The impulse response is run through the cascade's difference equations (transposed direct form
  * II, as time.ts) in blocks; the sum stops when a whole block adds less than TAIL_FRACTION of the
- * total after the slowest pole's time constant has passed, or at MAX_SAMPLES (then `complete` is
- * false and the figure is a lower bound).
+ * total after the slowest pole's time constant has passed, or at MAX_SAMPLES (or MAX_WORK samples times
+ * sections; then `complete` is false and the figure is a lower bound, printed "at least").
  */
 import type { Section } from '../design/section';
 import { largestPoleRadius } from './poles';
@@ -22,13 +22,15 @@ export interface WorstCase {
   l1: number;
   /** Samples summed. */
   samples: number;
-  /** False when the sum stopped at MAX_SAMPLES before the tail died out (a lower bound). */
+  /** False when the sum stopped at its limit before the tail died out (a lower bound). */
   complete: boolean;
 }
 
-/** A block adding less than this fraction of the sum ends it (1e-10: 1e-9 dB). */
-export const TAIL_FRACTION = 1e-10;
+/** A block adding less than this fraction of the sum ends it (1e-8: the figure within 1e-7 dB). */
+export const TAIL_FRACTION = 1e-8;
 export const MAX_SAMPLES = 1 << 22;
+/** Samples times sections summed at most (some 10 ms): a long cascade stops sooner, its figure then a lower bound. */
+export const MAX_WORK = 1 << 23;
 
 export function worstCasePeak(sections: readonly Section[], gain: number): WorstCase {
   const g = Math.abs(gain);
@@ -46,7 +48,8 @@ export function worstCasePeak(sections: readonly Section[], gain: number): Worst
   let total = 0;
   let t = 0;
   let complete = false;
-  while (t < MAX_SAMPLES) {
+  const limit = Math.max(block, Math.min(MAX_SAMPLES, Math.floor(MAX_WORK / n)));
+  while (t < limit) {
     let part = 0;
     for (let i = 0; i < block; i++, t++) {
       let x = t === 0 ? 1 : 0;

@@ -5,12 +5,12 @@
 import { designPlan } from '../design/chain';
 import { diagnosticMessage } from '../diagnostics';
 import { exportSection, buildExportList, type ExportList } from '../export/list';
-import { EXPORT_FORMATS, formatExport, type ExportFormat } from '../export/format';
+import { EXPORT_FORMATS, formatExport, printable, type ExportFormat } from '../export/format';
 import { importedPlan, parseCoefficientList, type ImportFormat } from '../export/import';
 import { BUILT_IN_PROFILES, DEFAULT_PROFILE, describeProfile, findBuiltInProfile, readProfileValue, copyProfile, profileErrorText } from '../export/profiles';
 import { quantizeProfile } from '../export/quantized';
 import { qName } from '../export/fixed';
-import type { BoardProfile, Plan } from '../plan/types';
+import { LIMITS, type BoardProfile, type Plan } from '../plan/types';
 import { parseJsonText } from '../plan/read';
 import { profileToJson, writePlanText } from '../plan/write';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
@@ -86,7 +86,9 @@ export function cmdImport(argv: string[], io: CliIo): CliResult {
   const r = parseCoefficientList(text, profile, format);
   if (!r.ok) throw new InputError(`${path}: ${r.error.message}`);
   try {
-    const plan = importedPlan(r.list, optString(args, 'name') ?? `Imported from ${path}`, rate ?? r.list.sampleRate ?? 48000);
+    // The default name is the file's, on one line and within the name limit.
+    const name = optString(args, 'name') ?? `Imported from ${printable(path)}`.slice(0, LIMITS.nameMaxLength);
+    const plan = importedPlan(r.list, name, rate ?? r.list.sampleRate ?? 48000, { name: '--name', sampleRate: '--sample-rate' });
     return { code: 0, stdout: writePlanText(plan), stderr: '' };
   } catch (e) {
     throw new InputError(`${path}: ${(e as Error).message}`);

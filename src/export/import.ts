@@ -14,7 +14,8 @@
 import type { Band, BoardProfile, CoefficientName, Plan, RawCoefficients } from '../plan/types';
 import { LIMITS, PLAN_FORMAT, PLAN_VERSION } from '../plan/types';
 import { diagnostic, DiagnosticError, targetPath, type DiagnosticTarget } from '../diagnostics';
-import { parseJsonText, readBoardProfile, PlanError } from '../plan/read';
+import { parseJsonText, readBoardProfile, readPlanValue, PlanError } from '../plan/read';
+import { planToJson } from '../plan/write';
 import { fixedRange, fromFixed, fromHex, qName } from './fixed';
 import { writeFactor } from './list';
 import { effectiveOrder } from './profiles';
@@ -24,10 +25,14 @@ import { COEFFICIENTS_FORMAT } from './format';
 export interface ImportedSection extends RawCoefficients {
   /** Where the export said it came from, when it did. */
   from?: string;
+  /** Where in the input it was read ("line 12"), for refusals of the plan it becomes. */
+  where?: DiagnosticTarget;
 }
 
 export interface ImportedOutput {
   id: string;
+  /** Where in the input the output, its gain and its delay were read. */
+  where?: { output?: DiagnosticTarget; gain?: DiagnosticTarget; delay?: DiagnosticTarget };
   /** Linear, polarity included; null when the list has none (folded, or not given). */
   gain: number | null;
   delay: { value: number; unit: 'samples' | 'ms' } | null;
@@ -38,6 +43,8 @@ export interface ImportedList {
   /** The profile the numbers were read with (a JSON export's own profile wins). */
   profile: BoardProfile;
   sampleRate: number | null;
+  /** Where the sample rate was read (a comment line, a define, the JSON field). */
+  sampleRateWhere?: DiagnosticTarget;
   outputs: ImportedOutput[];
   notes: string[];
 }
@@ -134,6 +141,7 @@ function toSection(values: number[], names: CoefficientName[], profile: BoardPro
   if (profile.number.kind === 'fixed') s.a0 = 1;
   if (s.a0 === 0) throw new ImportError(where, 'a0 is 0');
   if (from !== undefined) s.from = from;
+  s.where = where;
   return s;
 }
 
@@ -156,11 +164,15 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
     return current;
   };
   let sampleRate = profile.sampleRate;
+  let sampleRateWhere: DiagnosticTarget | undefined;
   text.split(/\r?\n/).forEach((raw, i) => {
     const where = lineAt(i + 1);
     // Our text export states its rate in a comment: "# Sample rate: 48000 Hz".
-    const rate = /^\s*#\s*Sample rate:\s*(\d+(?:\.\d+)?)\s*Hz/i.exec(raw);
-    if (rate) sampleRate = Number(rate[1]);
+    const rate = /^\s*#\s*Sample rate:\s*(\d+(?:\.\d+)?(?:e[+-]?\d+)?)\s*Hz/i.exec(raw);
+    if (rate) {
+      sampleRate = Number(rate[1]);
+      sampleRateWhere = where;
+    }
     const hash = raw.indexOf('#');
     let comment = hash >= 0 ? raw.slice(hash + 1).trim() : '';
     let line = hash >= 0 ? raw.slice(0, hash) : raw;
@@ -173,20 +185,22 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
     if (line === '') return;
     let m = /^output\s+(\S+)$/i.exec(line);
     if (m) {
-      current = { id: m[1], gain: null, delay: null, sections: [] };
+      current = { id: m[1], gain: null, delay: null, sections: [], where: { output: where } };
       outputs.push(current);
       return;
     }
     m = /^gain\s*[:=]?\s*(\S+)$/i.exec(line);
     if (m) {
-      ensure().gain = readGain(m[1], profile, where);
+      const o = ensure();
+      o.gain = readGain(m[1], profile, where);
+      o.where = { ...o.where, gain: where };
       return;
     }
     m = /^delay\s*[:=]?\s*(\S+)(?:\s+(samples|ms))?$/i.exec(line);
     if (m) {
-      const value = Number(m[1]);
-      if (!Number.isFinite(value) || value < 0) throw new ImportError(where, `delay "${m[1]}" is not a number >= 0`);
-      ensure().delay = { value, unit: (m[2]?.toLowerCase() as 'samples' | 'ms' | undefined) ?? profile.delayUnit };
+      const o = ensure();
+      o.delay = { value: readDelay(m[1], where), unit: (m[2]?.toLowerCase() as 'samples' | 'ms' | undefined) ?? profile.delayUnit };
+      o.where = { ...o.where, delay: where };
       return;
     }
     const tokens = line.split(/[\s,;]+/).filter((t) => t !== '');
@@ -195,7 +209,15 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
     const from = /^\d+\s+(\S+)/.exec(comment)?.[1];
     ensure().sections.push(toSection(values, names, profile, where, from));
   });
-  return { profile, sampleRate, outputs, notes: [] };
+  return { profile, sampleRate, sampleRateWhere, outputs, notes: [] };
+}
+
+/** A delay as written: a plain decimal number >= 0. */
+function readDelay(token: string, where: DiagnosticTarget): number {
+  const t = token.trim();
+  const value = Number(t);
+  if (!DECIMAL.test(t) || !Number.isFinite(value) || value < 0) throw new ImportError(where, `delay "${t}" is not a number >= 0`);
+  return value;
 }
 
 // ---- CSV -----------------------------------------------------------------------------------------
@@ -223,27 +245,36 @@ function splitCsvLine(line: string): string[] {
 }
 
 function parseCsv(text: string, profile: BoardProfile): ImportedList {
-  const lines = text.split(/\r?\n/).filter((l) => l.trim() !== '');
-  const header = splitCsvLine(lines[0]).map((h) => h.trim());
+  const lines = text
+    .split(/\r?\n/)
+    .map((line, i) => ({ line, lineNo: i + 1, where: lineAt(i + 1) }))
+    .filter((l) => l.line.trim() !== '');
+  if (lines.length === 0) throw new ImportError(WHOLE, 'the CSV is empty (no header line)');
+  const header = splitCsvLine(lines[0].line).map((h) => h.trim());
   const col = (name: string) => header.indexOf(name);
   const names = effectiveOrder(profile);
-  for (const n of names) if (col(n) < 0) throw new ImportError(lineAt(1), `the header has no "${n}" column (the profile's order is ${names.join(' ')})`);
+  for (const n of names) if (col(n) < 0) throw new ImportError(lines[0].where, `the header has no "${n}" column (the profile's order is ${names.join(' ')})`);
   const outputs = new Map<string, ImportedOutput>();
-  lines.slice(1).forEach((line, i) => {
-    const lineNo = i + 2;
-    const where = lineAt(lineNo);
+  if (col('output') < 0) throw new ImportError(lines[0].where, 'the header has no "output" column');
+  lines.slice(1).forEach(({ line, lineNo, where }) => {
     const cells = splitCsvLine(line);
     const id = cells[col('output')];
     if (!id) throw new ImportError(where, 'no output id');
     let out = outputs.get(id);
     if (!out) {
-      out = { id, gain: null, delay: null, sections: [] };
+      out = { id, gain: null, delay: null, sections: [], where: { output: where } };
       outputs.set(id, out);
     }
-    if (col('gain') >= 0 && cells[col('gain')]) out.gain = readGain(cells[col('gain')], profile, where);
+    if (col('gain') >= 0 && cells[col('gain')]) {
+      out.gain = readGain(cells[col('gain')], profile, where);
+      out.where = { ...out.where, gain: where };
+    }
     for (const unit of ['samples', 'ms'] as const) {
       const c = col(unit === 'samples' ? 'delaySamples' : 'delayMs');
-      if (c >= 0 && cells[c]) out.delay = { value: Number(cells[c]), unit };
+      if (c >= 0 && cells[c]) {
+        out.delay = { value: readDelay(cells[c], lineAt(lineNo, unit === 'samples' ? 'delaySamples' : 'delayMs')), unit };
+        out.where = { ...out.where, delay: where };
+      }
     }
     if (cells[col('section')] === '0') return;
     const values = names.map((n) => readToken(cells[col(n)] ?? '', profile, lineAt(lineNo, n)));
@@ -281,11 +312,12 @@ function parseJson(text: string): ImportedList {
       return toSection(values, names, profile, where, typeof s.from === 'string' ? s.from : undefined);
     });
     const gain = o.gain === null || o.gain === undefined ? null : readGain(tokenOf(o.gain, field(`${path}.gain`)), profile, field(`${path}.gain`));
+    if (o.delay !== undefined && o.delay !== null && !(typeof o.delay === 'number' && o.delay >= 0)) throw new ImportError(field(`${path}.delay`), 'must be a number >= 0');
     const delay = typeof o.delay === 'number' ? { value: o.delay, unit: profile.delayUnit } : null;
-    return { id: o.id, gain, delay, sections };
+    return { id: o.id, gain, delay, sections, where: { output: field(`${path}.id`), gain: field(`${path}.gain`), delay: field(`${path}.delay`) } };
   });
   const sampleRate = typeof d.sampleRate === 'number' ? d.sampleRate : profile.sampleRate;
-  return { profile, sampleRate, outputs, notes: [] };
+  return { profile, sampleRate, sampleRateWhere: field('sampleRate'), outputs, notes: [] };
 }
 
 // ---- C header ------------------------------------------------------------------------------------
@@ -308,11 +340,11 @@ function parseC(text: string, profile: BoardProfile): ImportedList {
   for (let i = 1; i < parts.length; i += 2) {
     const id = parts[i];
     const chunk = parts[i + 1];
-    const out: ImportedOutput = { id, gain: null, delay: null, sections: [] };
+    const out: ImportedOutput = { id, gain: null, delay: null, sections: [], where: { output: { kind: 'output', outputId: id }, gain: { kind: 'row', outputId: id, row: 'gain' }, delay: { kind: 'output', outputId: id, detail: 'delay' } } };
     const gain = /_gain\s*=\s*([^;]+);/.exec(chunk);
     if (gain) out.gain = readGain(cTokens(gain[1])[0] ?? '', profile, { kind: 'row', outputId: id, row: 'gain' });
     const delay = /_DELAY_(SAMPLES|MS)\s+(\S+)/.exec(chunk);
-    if (delay) out.delay = { value: Number(delay[2]), unit: delay[1] === 'MS' ? 'ms' : 'samples' };
+    if (delay) out.delay = { value: readDelay(delay[2], { kind: 'output', outputId: id, detail: 'delay' }), unit: delay[1] === 'MS' ? 'ms' : 'samples' };
     const sos = /_sos\s*\[[^\]]*\]\s*\[[^\]]*\]\s*=\s*\{([\s\S]*?)\};/.exec(chunk);
     if (sos) {
       const rowRe = /\{([^{}]*)\}\s*,?\s*(?:\/\*\s*\d+\s+(\S+).*?\*\/)?/g;
@@ -326,7 +358,7 @@ function parseC(text: string, profile: BoardProfile): ImportedList {
     }
     outputs.push(out);
   }
-  return { profile, sampleRate: rate ? Number(rate[1]) : profile.sampleRate, outputs, notes: [] };
+  return { profile, sampleRate: rate ? Number(rate[1]) : profile.sampleRate, sampleRateWhere: field('BQ_SAMPLE_RATE'), outputs, notes: [] };
 }
 
 // ---- to bands and plans --------------------------------------------------------------------------
@@ -349,15 +381,25 @@ function safeId(id: string, i: number): string {
 
 /**
  * A plan that holds an imported list: one output per imported output, its sections as raw bands,
- * its gain as gainDb and polarity, its delay in ms. Refused (ImportError) when it cannot be a plan.
+ * its gain as gainDb and polarity, its delay in ms. The plan is read back with the plan reader
+ * before it is returned, so `import` never writes a plan that Biquadrant then refuses; a refusal
+ * (ImportError) names where in the input the refused value was read ("line 12: ...").
+ * `where` names the places outside the input: the --name and --sample-rate options.
  */
-export function importedPlan(list: ImportedList, name: string, fallbackSampleRate: number): Plan {
+export function importedPlan(
+  list: ImportedList,
+  name: string,
+  fallbackSampleRate: number,
+  where: { name?: string; sampleRate?: string } = {},
+): Plan {
   const fs = list.sampleRate ?? fallbackSampleRate;
   if (list.outputs.length > LIMITS.outputsMax) throw new ImportError(WHOLE, `${list.outputs.length} outputs, more than a plan's ${LIMITS.outputsMax}`);
   const outputs = list.outputs.map((o, i) => {
-    if (o.sections.length > LIMITS.bandsMax) throw new ImportError({ kind: 'output', outputId: o.id }, `${o.sections.length} sections, more than an output's ${LIMITS.bandsMax} bands`);
+    if (o.sections.length > LIMITS.pathSectionsMax) {
+      throw new ImportError(o.where?.output ?? { kind: 'output', outputId: o.id }, `${o.sections.length} sections, more than the ${LIMITS.pathSectionsMax} an output's signal path holds`);
+    }
     const g = o.gain ?? 1;
-    if (g === 0) throw new ImportError({ kind: 'output', outputId: o.id, detail: 'gain' }, 'a gain of 0 cannot be a plan gain in dB');
+    if (g === 0) throw new ImportError(o.where?.gain ?? { kind: 'output', outputId: o.id, detail: 'gain' }, 'a gain of 0 cannot be a plan gain in dB');
     const gainDb = 20 * Math.log10(Math.abs(g));
     const delayMs = o.delay === null ? 0 : o.delay.unit === 'ms' ? o.delay.value : (o.delay.value * 1000) / fs;
     return {
@@ -372,5 +414,22 @@ export function importedPlan(list: ImportedList, name: string, fallbackSampleRat
       bands: sectionsToRawBands(o.sections),
     };
   });
-  return { format: PLAN_FORMAT, version: PLAN_VERSION, name, sampleRate: fs, input: { bands: [] }, outputs, profile: list.profile };
+  const plan: Plan = { format: PLAN_FORMAT, version: PLAN_VERSION, name, sampleRate: fs, input: { bands: [] }, outputs, profile: list.profile };
+  const back = readPlanValue(planToJson(plan));
+  if (!back.ok) throw new ImportError(importPlace(back.error.path, list, where), back.error.reason);
+  return back.plan;
+}
+
+/** Where in the input (or which option) a field of the imported plan came from. */
+function importPlace(path: string, list: ImportedList, where: { name?: string; sampleRate?: string }): DiagnosticTarget {
+  if (path === 'name') return field(where.name ?? 'name');
+  if (path === 'sampleRate') return list.sampleRate !== null ? (list.sampleRateWhere ?? field('sample rate')) : field(where.sampleRate ?? 'sample rate');
+  const m = /^outputs\[(\d+)\](?:\.(\w+))?(?:\[(\d+)\])?/.exec(path);
+  if (!m) return field(path);
+  const o = list.outputs[Number(m[1])];
+  if (!o) return field(path);
+  if (m[2] === 'bands' && m[3] !== undefined) return o.sections[Number(m[3])]?.where ?? field(path);
+  if (m[2] === 'gainDb' || m[2] === 'invert') return o.where?.gain ?? { kind: 'output', outputId: o.id, detail: 'gain' };
+  if (m[2] === 'delayMs') return o.where?.delay ?? { kind: 'output', outputId: o.id, detail: 'delay' };
+  return o.where?.output ?? { kind: 'output', outputId: o.id };
 }

@@ -24,7 +24,7 @@ import { diagnostic, type Diagnostic } from '../diagnostics';
 import { designPlan, outputGain, type SourcedSection } from '../design/chain';
 import { scaleNumerator, type Section } from '../design/section';
 import { readPlanValue } from '../plan/read';
-import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
+import { LIMITS, type BoardProfile, type CoefficientName, type Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
 import { fromFixed, toFixed, toHex, type Saturation } from './fixed';
 import { effectiveOrder } from './profiles';
@@ -93,7 +93,7 @@ export interface ExportList {
   outputs: ExportOutput[];
 }
 
-export type ExportNote = Diagnostic<'export-redesigned' | 'export-raw-rate' | 'export-scaling-level' | 'export-unstable' | 'export-saturated' | 'export-gain-saturated'>;
+export type ExportNote = Diagnostic<'export-redesigned' | 'export-raw-rate' | 'export-scaling-level' | 'export-scaling-short' | 'export-unstable' | 'export-saturated' | 'export-gain-saturated'>;
 
 export interface ExportProblem {
   code: 'budget' | 'sample-rate' | 'delay';
@@ -184,8 +184,17 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
       scales = sug.scales;
       sections = sug.order.map((j, k) => ({ ...sug.sections[k], from: sections[j].from }));
       if (sug.levelChangeDb < 0) {
-        if (profile.gain === 'separate') outGain = gain * Math.pow(10, -sug.levelChangeDb / 20);
-        else notes.push(diagnostic('export-scaling-level', 'info', { kind: 'output', outputId: o.id }, { levelDb: -sug.levelChangeDb }));
+        if (profile.gain === 'separate') {
+          // The make-up gain stays within the plan's output gain limit (less 0.01 dB for the
+          // number format's rounding), so the list still imports as a plan; the rest is noted.
+          const gainDb = 20 * Math.log10(Math.abs(gain));
+          const makeUpDb = Math.min(-sug.levelChangeDb, LIMITS.outputGainDbAbsMax - 0.01 - gainDb);
+          if (makeUpDb > 0) outGain = gain * Math.pow(10, makeUpDb / 20);
+          const shortDb = -sug.levelChangeDb - Math.max(0, makeUpDb);
+          if (shortDb > 0.005) {
+            notes.push(diagnostic('export-scaling-short', 'info', { kind: 'output', outputId: o.id }, { levelDb: shortDb, gainLimitDb: LIMITS.outputGainDbAbsMax }));
+          }
+        } else notes.push(diagnostic('export-scaling-level', 'info', { kind: 'output', outputId: o.id }, { levelDb: -sug.levelChangeDb }));
       }
     }
     const writtenGain = profile.gain === 'separate' ? writeNumber(outGain, profile) : null;

@@ -22,7 +22,7 @@
  * A separate output gain is taken to act after the cascade (the plan's signal order).
  */
 import { HEADROOM_WARN_DB } from '../analysis/thresholds';
-import { headroom } from '../analysis/headroom';
+import { prefixPeakSearch } from '../analysis/peak-search';
 import { poleRadius } from '../analysis/poles';
 import { scaleNumerator, type Section } from '../design/section';
 
@@ -35,12 +35,7 @@ export interface PartialPeak {
 
 /** The peak gain after section 1, 1..2, ..., 1..N (each over 0 Hz .. Nyquist). */
 export function partialCascadePeaks(sections: readonly Section[], sampleRateHz: number): PartialPeak[] {
-  const out: PartialPeak[] = [];
-  for (let k = 1; k <= sections.length; k++) {
-    const h = headroom(sections.slice(0, k), 1, sampleRateHz);
-    out.push({ through: k, peakDb: h.peakDb, frequencyHz: h.frequencyHz });
-  }
-  return out;
+  return prefixPeakSearch(sections, sampleRateHz).map((p, k) => ({ through: k + 1, peakDb: p.peakDb, frequencyHz: p.frequencyHz }));
 }
 
 export const SCALING_METHOD =

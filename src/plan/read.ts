@@ -108,7 +108,7 @@ function readCurrent(o: Record<string, unknown>): Plan {
   }
   const ids = new Set<string>();
   outputs.forEach((v, i) => {
-    const out = readOutput(v, `outputs[${i}]`, sampleRate);
+    const out = readOutput(v, `outputs[${i}]`, sampleRate, plan.input.bands.length);
     if (ids.has(out.id)) throw new PlanError(`outputs[${i}].id`, `"${out.id}" is used by another output`);
     ids.add(out.id);
     plan.outputs.push(out);
@@ -219,7 +219,16 @@ function wholeNumber(v: unknown, path: string, min: number, max: number): number
   return x;
 }
 
-function readOutput(v: unknown, path: string, fs: number): Output {
+/**
+ * Sections an edge designs to (design/crossover.ts): one per pole pair and a first-order one for
+ * an odd order; a Linkwitz-Riley of order 2n is the Butterworth of order n twice.
+ */
+function edgeSections(edge: Crossover | null): number {
+  if (!edge) return 0;
+  return edge.family === 'linkwitz-riley' ? 2 * Math.ceil(edge.order / 4) : Math.ceil(edge.order / 2);
+}
+
+function readOutput(v: unknown, path: string, fs: number, inputBands: number): Output {
   const o = object(v, path);
   allowKeys(o, path, ['id', 'name', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands']);
   const id = str(o.id, `${path}.id`, 32);
@@ -229,17 +238,15 @@ function readOutput(v: unknown, path: string, fs: number): Output {
   const delayMs = o.delayMs === undefined ? 0 : num(o.delayMs, `${path}.delayMs`);
   if (delayMs < 0) throw new PlanError(`${path}.delayMs`, 'must be >= 0');
   if (delayMs > LIMITS.delayMsMax) throw new PlanError(`${path}.delayMs`, `must be at most ${LIMITS.delayMsMax} ms`);
-  return {
-    id,
-    name: o.name === undefined ? id : str(o.name, `${path}.name`, LIMITS.nameMaxLength),
-    gainDb,
-    delayMs,
-    invert: o.invert === undefined ? false : bool(o.invert, `${path}.invert`),
-    mute: o.mute === undefined ? false : bool(o.mute, `${path}.mute`),
-    highPass: readEdge(o.highPass, `${path}.highPass`, fs),
-    lowPass: readEdge(o.lowPass, `${path}.lowPass`, fs),
-    bands: readBands(o.bands, `${path}.bands`, fs),
-  };
+  const name = o.name === undefined ? id : str(o.name, `${path}.name`, LIMITS.nameMaxLength);
+  const invert = o.invert === undefined ? false : bool(o.invert, `${path}.invert`);
+  const mute = o.mute === undefined ? false : bool(o.mute, `${path}.mute`);
+  const highPass = readEdge(o.highPass, `${path}.highPass`, fs);
+  const lowPass = readEdge(o.lowPass, `${path}.lowPass`, fs);
+  // Up to bandsMax bands, or more while the whole signal path stays within pathSectionsMax.
+  const maxBands = Math.max(LIMITS.bandsMax, LIMITS.pathSectionsMax - inputBands - edgeSections(highPass) - edgeSections(lowPass));
+  const bands = readBands(o.bands, `${path}.bands`, fs, maxBands);
+  return { id, name, gainDb, delayMs, invert, mute, highPass, lowPass, bands };
 }
 
 function readEdge(v: unknown, path: string, fs: number): Crossover | null {
@@ -263,10 +270,17 @@ function readEdge(v: unknown, path: string, fs: number): Crossover | null {
   return edge;
 }
 
-function readBands(v: unknown, path: string, fs: number): Band[] {
+function readBands(v: unknown, path: string, fs: number, maxBands: number = LIMITS.bandsMax): Band[] {
   if (v === undefined) return [];
   const list = array(v, path);
-  if (list.length > LIMITS.bandsMax) throw new PlanError(path, `must hold at most ${LIMITS.bandsMax} bands`);
+  if (list.length > maxBands) {
+    throw new PlanError(
+      path,
+      maxBands === LIMITS.bandsMax
+        ? `must hold at most ${LIMITS.bandsMax} bands`
+        : `must hold at most ${maxBands} bands here (an output's path, input bands and edge sections included, holds at most ${LIMITS.pathSectionsMax} sections)`,
+    );
+  }
   const ids = new Set<string>();
   return list.map((b, i) => {
     const band = readBand(b, `${path}[${i}]`, fs);

@@ -164,6 +164,13 @@ export const LIMITS = {
   outputsMin: 1,
   outputsMax: 16,
   bandsMax: 64,
+  /**
+   * Sections in one output's signal path (input bands, edge sections, its bands): 64 + 8 + 64, the
+   * most a plan within the other limits exports. An output may hold more than `bandsMax` bands
+   * (an imported board list of raw sections) as long as its path stays within this, so every
+   * export of a valid plan imports back.
+   */
+  pathSectionsMax: 136,
   orderMin: 1,
   orderMax: 8,
   linkwitzRileyOrders: [2, 4, 6, 8] as readonly number[],

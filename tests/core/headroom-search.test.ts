@@ -61,15 +61,16 @@ describe('worst-case peak: sum |h| (scipy.signal.sosfilt, headroom.json)', () =>
     it(c.name, () => {
       const w = worstCasePeak(sectionsOf(c), 1);
       expect(w.complete).toBe(true);
-      // 1e-8 relative: the sums differ by float rounding and by the tail below 1e-10 of the total.
-      expect(Math.abs(w.l1 / c.l1! - 1)).toBeLessThan(1e-8);
+      // 1e-7 relative: the sums differ by float rounding and by the tail left out, each block
+      // after the last adding less than TAIL_FRACTION (1e-8) of the total, decaying geometrically.
+      expect(Math.abs(w.l1 / c.l1! - 1)).toBeLessThan(1e-7);
       // Never below the sine peak (|H(e^jw)| <= sum |h| for every w).
       expect(w.peakDb).toBeGreaterThanOrEqual(c.sine.peakDb - 1e-9);
     });
   }
   it('the gain scales it; an unstable section has no bound', () => {
     const c = fixture.cases.find((x) => x.name === 'LR8 high-pass at 80 Hz')!;
-    expect(worstCasePeak(sectionsOf(c), -0.5).l1).toBeCloseTo(c.l1! / 2, 9);
+    expect(Math.abs(worstCasePeak(sectionsOf(c), -0.5).l1 / (c.l1! / 2) - 1)).toBeLessThan(1e-7);
     expect(worstCasePeak([{ b0: 1, b1: 0, b2: 0, a1: 0, a2: -1.01 }], 1).peakDb).toBe(Infinity);
   });
 });

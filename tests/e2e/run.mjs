@@ -274,7 +274,7 @@ async function main() {
       const notice = page.getByTestId('notice');
       await notice.waitFor();
       const text = await notice.innerText();
-      assert(text.includes('outputs[0].bands[0].q: must be > 0'), `notice: ${text}`);
+      assert(text.includes('outputs[0].bands[0].q: must be from 0.01 to 1000'), `notice: ${text}`);
       assert((await notice.getAttribute('role')) === 'alert', 'the refusal is not announced');
       assert(JSON.stringify(await plan()) === JSON.stringify(before), 'plan changed after a broken file');
       await page.screenshot({ path: `${OUT}/05-broken-file.png` });
@@ -331,6 +331,11 @@ async function main() {
     await check('status: headroom per output, warnings, and the exposure calculator (NIOSH, OSHA)', async () => {
       const chips = page.getByTestId('headroom-chip');
       assert((await chips.count()) === (await plan()).outputs.length, 'one headroom chip per output');
+      // Beside each sine peak, the worst-case peak for any full-scale input (sum |h|, never below it).
+      const worst = await page.getByTestId('worst-case').count();
+      assert(worst === (await chips.count()), 'one worst-case figure per output');
+      const title = await chips.first().getAttribute('title');
+      assert(/sine peak .* worst-case peak for any full-scale input/.test(title ?? ''), title ?? 'no title');
       await page.getByTestId('caution').click();
       const level = page.getByTestId('exposure-level');
       await level.fill('100');
@@ -338,6 +343,20 @@ async function main() {
       const osha = await page.getByTestId('exposure-osha').innerText();
       // NIOSH REL: 100 dBA -> 15 min; OSHA Table G-16: 100 dBA -> 2 h.
       assert(niosh.startsWith('15 min') && osha.startsWith('2 h'), `${niosh} / ${osha}`);
+      // Rounded down: NIOSH 98-126 Table 1-1 gives 7 min 30 s at 103 dBA; OSHA Table G-16 ends at 115 dBA.
+      await level.fill('103');
+      const niosh103 = await page.getByTestId('exposure-niosh').innerText();
+      assert(niosh103.startsWith('7 min 30 s'), niosh103);
+      await level.fill('120');
+      const osha120 = await page.getByTestId('exposure-osha').innerText();
+      assert(/^none: Table G-16 ends at 115 dBA/.test(osha120), osha120);
+      await level.fill('100');
+      // Daily dose of the invented default day: 60 min at 95 dBA and 240 min at 85 dBA.
+      // NIOSH: 60 / 47.62 + 240 / 480 = 1.76 -> 176%; OSHA: 60 / 240 + 240 / 960 = 0.5 -> 50%.
+      await page.getByTestId('exposure-dose').locator('summary').click();
+      const doseN = await page.getByTestId('dose-niosh').innerText();
+      const doseO = await page.getByTestId('dose-osha').innerText();
+      assert(doseN === '176%' && doseO === '50%', `${doseN} / ${doseO}`);
       const text = await page.getByTestId('exposure').innerText();
       assert(/98-126/.test(text) && /1910\.95/.test(text) && /regulations/.test(text), 'sources or deferral missing');
       await page.screenshot({ path: `${OUT}/07-exposure.png` });

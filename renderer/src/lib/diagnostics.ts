@@ -83,6 +83,8 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
   'export-raw-rate': (plan, d) => `raw bands keep their coefficients, so their response moves with the rate: ${d.values.bands.map((from) => sourceName(plan, from)).join(', ')}`,
   'export-scaling-level': (plan, d) =>
     `${targetText(plan, d.target)}: the suggested scaling leaves the output ${d.values.levelDb.toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`,
+  'export-scaling-short': (plan, d) =>
+    `${targetText(plan, d.target)}: the suggested scaling leaves the output ${d.values.levelDb.toFixed(2)} dB below the design (its gain would pass the plan's ${d.values.gainLimitDb} dB limit)`,
   'export-unstable': (plan, d) => `unstable after quantization: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${sectionSource(plan, s.from)})`).join(', ')}`,
   'export-saturated': (plan, d) => `saturated coefficients: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
   'export-gain-saturated': (plan, d) => `output gain saturated: ${d.values.outputIds.map((id) => outputName(plan, id)).join(', ')}`,
