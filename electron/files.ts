@@ -296,12 +296,17 @@ export interface PlanSaveOptions {
  * overwrite some other file).
  */
 export async function planWriteRefusal(path: string, fs: FileSystem = realFileSystem): Promise<string | null> {
+  return writeRefusal(path, true, fs);
+}
+
+/** `planWriteRefusal` for any file: `plan` adds the rule about links to non-plan files. */
+async function writeRefusal(path: string, plan: boolean, fs: FileSystem): Promise<string | null> {
   let real = path;
   try {
     const link = await fs.lstat(path);
     if (link.isSymbolicLink()) {
       real = await fs.realpath(path);
-      if (!isPlanPath(real)) return 'it is a link to a file that is not a plan (not named *.bqplan)';
+      if (plan && !isPlanPath(real)) return 'it is a link to a file that is not a plan (not named *.bqplan)';
     }
     const st = await fs.stat(real);
     if (!st.isFile()) return 'it is a folder, not a file';
@@ -356,9 +361,11 @@ export async function savePlanFile(path: string, plan: unknown, fs: FileSystem =
   return saved.ok ? { ok: true, value: saved.value } : { ok: false, error: saved.error };
 }
 
-/** Writes an export (coefficient text etc.) atomically, without a backup. */
+/** Writes an export (coefficient text etc.) atomically, without a backup; a read-only file is refused. */
 export async function saveTextFile(path: string, text: string, fs: FileSystem = realFileSystem): Promise<FileResult<string>> {
   try {
+    const refusal = await writeRefusal(path, false, fs);
+    if (refusal !== null) return { ok: false, error: `Not saved to "${basename(path)}": ${refusal}. The file on disk is unchanged.` };
     await writeFileAtomic(path, text, { backup: false }, fs);
   } catch (e) {
     return { ok: false, error: `Not saved to "${basename(path)}": ${describeFileError(e)}. The file on disk is unchanged.` };

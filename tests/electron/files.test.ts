@@ -348,5 +348,13 @@ describe('the file as this window last saw it', () => {
     expect(r.ok).toBe(false);
     expect(JSON.parse(await readFile(p, 'utf8')).name).toBe(plan.name);
     expect(await planWriteRefusal(join(dir, 'new.bqplan'))).toBeNull();
+    // Exports too: a read-only coefficient file is not replaced by the rename.
+    const exported = join(dir, 'coefficients.txt');
+    await writeFile(exported, 'old');
+    await chmod(exported, 0o444);
+    const e = await saveTextFile(exported, 'new');
+    expect(e.ok).toBe(false);
+    expect(!e.ok && e.error).toMatch(/^Not saved to "coefficients\.txt": the file is read-only/);
+    expect(await readFile(exported, 'utf8')).toBe('old');
   });
 });
