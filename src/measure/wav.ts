@@ -15,9 +15,11 @@ import type { MeasuredResponse } from './types';
 
 type WaveFileClass = typeof wavefileModule.WaveFile;
 // wavefile ships an ES module with a named export (bundlers) and a CommonJS build (Node), whose
-// exports arrive under `default` when imported from an ES module.
-const WaveFile: WaveFileClass =
-  (wavefileModule as unknown as { WaveFile?: WaveFileClass }).WaveFile ?? (wavefileModule as unknown as { default: { WaveFile: WaveFileClass } }).default.WaveFile;
+// exports arrive under `default` when imported from an ES module (looked up by a computed key so
+// bundlers, which see the ES module, do not warn about a missing default export).
+const wavefileExports = wavefileModule as unknown as Record<string, { WaveFile?: WaveFileClass } | WaveFileClass | undefined>;
+const DEFAULT_KEY = 'default';
+const WaveFile: WaveFileClass = (wavefileExports.WaveFile as WaveFileClass | undefined) ?? (wavefileExports[DEFAULT_KEY] as { WaveFile: WaveFileClass }).WaveFile;
 
 /** Sample rates read: any from 1 kHz (below, the grid from 10 Hz hardly exists) to 8 x 192 kHz. */
 export const MIN_SAMPLE_RATE = 1000;

@@ -12,8 +12,9 @@ import { parseMeasurementText } from '../../src/measure/text';
 import { parseImpulseWav } from '../../src/measure/wav';
 
 type WaveFileClass = typeof wavefileModule.WaveFile;
-const WaveFile: WaveFileClass =
-  (wavefileModule as unknown as { WaveFile?: WaveFileClass }).WaveFile ?? (wavefileModule as unknown as { default: { WaveFile: WaveFileClass } }).default.WaveFile;
+const wavefileExports = wavefileModule as unknown as Record<string, unknown>;
+const DEFAULT_KEY = 'default'; // the CommonJS build under Node (see src/measure/wav.ts)
+const WaveFile: WaveFileClass = (wavefileExports.WaveFile as WaveFileClass | undefined) ?? (wavefileExports[DEFAULT_KEY] as { WaveFile: WaveFileClass }).WaveFile;
 
 export interface MeasureBenchCase {
   name: string;
