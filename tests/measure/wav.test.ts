@@ -12,6 +12,7 @@ import { MeasurementFileError } from '../../src/measure/errors';
 import { DEFAULT_GATE, findPeak, gateWeights, gateWindow, resolveGate } from '../../src/measure/gate';
 import { GRID_POINTS_PER_OCTAVE, impulseResponseToMeasurement, logGridHz, measurementGridHz } from '../../src/measure/spectrum';
 import { looksLikeWav, parseImpulseWav, readWavHeader } from '../../src/measure/wav';
+import * as wavefileModule from 'wavefile';
 import { angleDiffDeg, loadFixture } from '../helpers/reference';
 
 interface WavCase {
@@ -72,6 +73,42 @@ describe('WAV import against scipy.signal.sosfreqz (make_measure_fixtures.py), 2
     const i = left.frequencyHz.findIndex((f) => f >= 1000);
     expect(left.magnitudeDb[i] - right.magnitudeDb[i]).toBeCloseTo(20 * Math.log10(0.5), 3);
     expect(() => parseImpulseWav(bytesOf(c.file), { name: 'x', channel: 2 })).toThrow(/channel: channel 3 asked for; the file has 2/);
+  });
+});
+
+describe('header variants written by the wavefile library', () => {
+  type WaveFileClass = typeof wavefileModule.WaveFile;
+  const exportsOf = wavefileModule as unknown as Record<string, unknown>;
+  const DEFAULT_KEY = 'default';
+  const WaveFile = (exportsOf.WaveFile as WaveFileClass | undefined) ?? (exportsOf[DEFAULT_KEY] as { WaveFile: WaveFileClass }).WaveFile;
+  const impulse = (n: number, at: number, value: number) => {
+    const x = new Array<number>(n).fill(0);
+    x[at] = value;
+    return x;
+  };
+
+  it('extensible PCM 24-bit with 3 channels, RIFX (big-endian) 16-bit, extensible float 64', () => {
+    const ext = new WaveFile();
+    // Three channels: wavefile writes WAVE_FORMAT_EXTENSIBLE; the impulse is on channel 3.
+    ext.fromScratch(3, 48000, '24', [impulse(256, 0, 0), impulse(256, 0, 0), impulse(256, 7, 4194304)]);
+    const e = parseImpulseWav(ext.toBuffer(), { name: 'e', channel: 2 });
+    expect(readWavHeader(ext.toBuffer()).info).toMatchObject({ sampleFormat: 'pcm', bitsPerSample: 24, channels: 3 });
+    expect(e.delayMs).toBeCloseTo((7 * 1000) / 48000, 12);
+    // A single sample of 2^22 at 24 bits is 0.5 of full scale: -6.02 dB everywhere, no excess phase.
+    expect(Math.max(...e.magnitudeDb.map((m) => Math.abs(m - 20 * Math.log10(0.5))))).toBeLessThan(1e-9);
+    expect(Math.max(...e.phaseDeg!.map(Math.abs))).toBeLessThan(1e-9);
+
+    const rifx = new WaveFile();
+    rifx.fromScratch(1, 44100, '16', impulse(128, 3, -16384), { container: 'RIFX' });
+    const r = parseImpulseWav(rifx.toBuffer(), { name: 'r' });
+    expect(readWavHeader(rifx.toBuffer()).info.bigEndian).toBe(true);
+    expect(r.magnitudeDb[100]).toBeCloseTo(20 * Math.log10(0.5), 9);
+    expect(Math.abs(r.phaseDeg![100])).toBeCloseTo(180, 9); // a negative impulse
+
+    const f64 = new WaveFile();
+    f64.fromScratch(1, 96000, '64', impulse(64, 0, 0.25));
+    expect(readWavHeader(f64.toBuffer()).info).toMatchObject({ sampleFormat: 'float', bitsPerSample: 64 });
+    expect(parseImpulseWav(f64.toBuffer(), { name: 'f' }).magnitudeDb[500]).toBeCloseTo(20 * Math.log10(0.25), 9);
   });
 });
 
