@@ -25,6 +25,7 @@ import {
   wasmKernel,
 } from '../../src/response/kernel';
 import { logFrequencies } from '../../src/response/chain-response';
+import { measureBenchText, runMeasureBench } from './measure.bench';
 
 const SIZES = [
   { sections: 16, points: 2048 },
@@ -165,9 +166,10 @@ const sizes = SIZES.map((s, i) => {
     meetsGoal: o.best <= GOAL_NS && (ratio === null || ratio >= GOAL_SCIPY_RATIO),
   };
 });
+const measure = runMeasureBench();
 if (json) {
   process.stdout.write(
-    JSON.stringify({ sizes, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
+    JSON.stringify({ sizes, measure, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
   );
 } else {
   console.log(
@@ -182,4 +184,5 @@ if (json) {
     );
   }
   console.log(`goal: at most ${GOAL_NS} ns per point x section and at least ${GOAL_SCIPY_RATIO}x faster than sosfreqz at every size`);
+  console.log(measureBenchText(measure));
 }
