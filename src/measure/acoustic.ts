@@ -203,7 +203,15 @@ export function predictAcoustic(plan: Plan, frequenciesHz: ArrayLike<number>, op
 
 /** Chain x driver x offset delay, as a `Response` at sample rate fs (NaN where the driver has no value). */
 function predictedResponse(chainOf: DesignedOutput, d: InterpolatedMeasurement, offsetMs: number, omega: Float64Array, fs: number): Response {
-  const c = outputResponse(chainOf, omega, fs);
+  return predictedFromChain(outputResponse(chainOf, omega, fs), d, offsetMs, omega, fs);
+}
+
+/**
+ * The predicted response from an output's chain response already computed on the same grid
+ * (`omega` = 2 pi f / fs, as `normalizedOmega` gives), its driver measurement interpolated on that
+ * grid, and its acoustic offset in ms. For callers that cache chain responses (the app).
+ */
+export function predictedFromChain(c: Response, d: InterpolatedMeasurement, offsetMs: number, omega: Float64Array, fs: number): Response {
   const n = omega.length;
   const offsetSamples = (offsetMs * fs) / 1000;
   const msPerSample = 1000 / fs;
@@ -242,4 +250,21 @@ function predictedResponse(chainOf: DesignedOutput, d: InterpolatedMeasurement, 
     r.derivativeAtZero = { re, im };
   }
   return r;
+}
+
+/**
+ * A measurement alone on a frequency grid as a `Response` (for plotting beside the predictions):
+ * NaN outside its range, and phase and group delay NaN without phase.
+ */
+export function measurementResponse(d: InterpolatedMeasurement, sampleRateHz: number): Response {
+  const n = d.magnitudeDb.length;
+  const phaseRad = new Float64Array(n);
+  const logSlope = new Float64Array(n);
+  const groupDelaySamples = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    phaseRad[i] = Number.isNaN(d.phaseRad[i]) ? NaN : wrapPi(d.phaseRad[i]);
+    logSlope[i] = d.logSlopePerRadPerS[i] * sampleRateHz; // per rad/sample, as Response has it
+    groupDelaySamples[i] = (d.groupDelayMs[i] / 1000) * sampleRateHz;
+  }
+  return { magnitudeDb: d.magnitudeDb, phaseRad, phaseUnwrappedRad: d.phaseRad, groupDelayMs: d.groupDelayMs, logSlope, groupDelaySamples };
 }
