@@ -12,12 +12,15 @@ import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs
 import { coeffsCsvText, coeffsCText, coeffsJsonText, coeffsListing, coeffsText } from './coeffs';
 import { numText } from '../export/list';
 import { cmdExport, cmdImport, cmdProfiles, quantizedResponseText } from './export';
+import { cmdMeasure } from './measure';
 import { acousticCsvColumns, acousticJson, acousticSection, smoothingOption } from './acoustic';
 import { cmdAttach } from './attach';
 
 export interface CliIo {
   /** Reads a text file; throws an Error with a readable message when it cannot. */
   readText(path: string): string;
+  /** Reads a file's bytes (measurement files may be WAV); throws like readText. */
+  readBytes?(path: string): Uint8Array;
 }
 
 export interface CliResult {
@@ -51,6 +54,11 @@ commands:
       the built-in board profiles
   import FILE --profile NAME|FILE [--format auto|text|csv|json|c] [--name NAME] [--sample-rate HZ]
       a coefficient list (any export format) as a plan of raw bands, written to stdout
+  measure FILE [--format json|csv] [--channel N] [--gate START_MS,LENGTH_MS] [--smooth 1/N|var] [--min-phase]
+      a measurement (text columns of Hz, dB, optional degrees; or a WAV impulse response) as
+      imported: JSON {name, frequencyHz, magnitudeDb, phaseDeg, phaseEstimated, delayMs, notes}
+      or CSV frequencyHz,magnitudeDb,phaseDeg; WAV: --channel from 1 (default 1), --gate ms
+      before the peak and length (default 2,500); --min-phase: phase estimated from magnitude
   attach PLAN FILE (--output ID | --system) [--offset-mm N] [--name NAME]
       the plan with the measurement in FILE (text columns: Hz, dB, optional phase) added as the
       output's driver measurement or as a system measurement, written to stdout
@@ -67,6 +75,7 @@ export const COMMANDS: Record<string, (argv: string[], io: CliIo) => CliResult> 
   export: cmdExport,
   profiles: (argv) => cmdProfiles(argv),
   import: cmdImport,
+  measure: cmdMeasure,
   attach: cmdAttach,
 };
 

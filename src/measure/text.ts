@@ -36,10 +36,15 @@ function separatorMode(line: string): SeparatorMode {
   return 'plain';
 }
 
+function decimalComma(field: string): string {
+  const s = field.trim();
+  return s.includes(',') ? s.replace(',', '.') : s;
+}
+
 function splitFields(line: string, mode: SeparatorMode): string[] {
   let fields: string[];
-  if (mode === 'semicolon') fields = line.split(';').map((s) => s.trim().replace(',', '.'));
-  else if (mode === 'tab') fields = line.split(/[\t ]+/).map((s) => s.replace(',', '.'));
+  if (mode === 'semicolon') fields = line.split(';').map(decimalComma);
+  else if (mode === 'tab') fields = line.split(/[\t ]+/).map(decimalComma);
   else fields = line.split(/\s*,\s*|\s+/);
   if (fields.length > 1 && fields[fields.length - 1] === '') fields.pop();
   return fields;

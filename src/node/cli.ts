@@ -4,6 +4,7 @@ import { runCli } from '../cli/run';
 
 const result = runCli(process.argv.slice(2), {
   readText: (path) => readFileSync(path, 'utf8'),
+  readBytes: (path) => new Uint8Array(readFileSync(path)),
 });
 if (result.stdout) process.stdout.write(result.stdout);
 if (result.stderr) process.stderr.write(result.stderr);

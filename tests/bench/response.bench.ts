@@ -13,6 +13,7 @@ import { designEdge } from '../../src/design/crossover';
 import { packSections, type Section } from '../../src/design/section';
 import { allocateKernelOutput, cascadeResponse, normalizedOmega } from '../../src/response/kernel';
 import { logFrequencies } from '../../src/response/chain-response';
+import { measureBenchText, runMeasureBench } from './measure.bench';
 
 const SIZES = [
   { sections: 16, points: 2048 },
@@ -107,8 +108,9 @@ const sizes = SIZES.map((s, i) => ({
   scipyNsPerPointSection: scipy ? +scipy.ns[i].toFixed(3) : null,
   ratio: scipy ? +(scipy.ns[i] / ours[i]).toFixed(2) : null,
 }));
+const measure = runMeasureBench();
 if (json) {
-  process.stdout.write(JSON.stringify({ sizes, node: process.version, scipy: scipy?.version ?? null }) + '\n');
+  process.stdout.write(JSON.stringify({ sizes, measure, node: process.version, scipy: scipy?.version ?? null }) + '\n');
 } else {
   console.log(`response kernel (magnitude, phase, exact group delay), node ${process.version}` + (scipy ? `; scipy ${scipy.version} sosfreqz (complex only)` : '; scipy not found'));
   console.log('sections  points   ns/(point x section)   scipy sosfreqz   scipy / ours');
@@ -118,4 +120,5 @@ if (json) {
     );
   }
   console.log('goal: at least 4x faster than sosfreqz at every size');
+  console.log(measureBenchText(measure));
 }

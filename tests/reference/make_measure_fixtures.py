@@ -129,9 +129,191 @@ def smoothing_cases():
     return cases
 
 
+# ---- WAV impulse responses --------------------------------------------------------------------
+
+def cookbook_peaking(f0, gain_db, q, fs):
+    """Audio EQ Cookbook peaking EQ (R. Bristow-Johnson), as [b0 b1 b2 1 a1 a2]."""
+    a = 10 ** (gain_db / 40)
+    w0 = 2 * math.pi * f0 / fs
+    alpha = math.sin(w0) / (2 * q)
+    b = [1 + alpha * a, -2 * math.cos(w0), 1 - alpha * a]
+    den = [1 + alpha / a, -2 * math.cos(w0), 1 - alpha / a]
+    return [b[0] / den[0], b[1] / den[0], b[2] / den[0], 1.0, den[1] / den[0], den[2] / den[0]]
+
+
+def cookbook_high_shelf(f0, gain_db, fs, s=1.0):
+    """Audio EQ Cookbook high shelf, shelf slope S, as [b0 b1 b2 1 a1 a2]."""
+    a = 10 ** (gain_db / 40)
+    w0 = 2 * math.pi * f0 / fs
+    cw = math.cos(w0)
+    alpha = math.sin(w0) / 2 * math.sqrt((a + 1 / a) * (1 / s - 1) + 2)
+    sa = 2 * math.sqrt(a) * alpha
+    b0 = a * ((a + 1) + (a - 1) * cw + sa)
+    b1 = -2 * a * ((a - 1) + (a + 1) * cw)
+    b2 = a * ((a + 1) + (a - 1) * cw - sa)
+    a0 = (a + 1) - (a - 1) * cw + sa
+    a1 = 2 * ((a - 1) - (a + 1) * cw)
+    a2 = (a + 1) - (a - 1) * cw - sa
+    return [b0 / a0, b1 / a0, b2 / a0, 1.0, a1 / a0, a2 / a0]
+
+
+def wav_cascade(fs):
+    """High-pass 40 Hz (Butterworth 2), peaking +6 dB at 1 kHz Q 2, high shelf -4 dB at 6 kHz,
+    low-pass 16 kHz (Butterworth 2): at most about 13 dB of range from 20 Hz to 20 kHz, so even
+    16-bit samples hold it to well under 0.05 dB."""
+    hp = sig.butter(2, 40, 'highpass', fs=fs, output='sos')
+    lp = sig.butter(2, 16000, 'lowpass', fs=fs, output='sos')
+    return np.vstack([hp, [cookbook_peaking(1000, 6, 2, fs)], [cookbook_high_shelf(6000, -4, fs)], lp])
+
+
+WAV_CASES = [
+    # file, writer, sample rate, channels (the IR goes in the last one), pre-delay (samples)
+    ('ir-pcm16-44100.wav', 'int16', 44100, 1, 150),
+    ('ir-pcm24-48000.wav', 'int24', 48000, 1, 168),
+    ('ir-pcm32-96000.wav', 'int32', 96000, 1, 400),
+    ('ir-float32-48000-stereo.wav', 'float32', 48000, 2, 200),
+    ('ir-float64-44100.wav', 'float64', 44100, 1, 123),
+]
+IR_SECONDS = 0.125  # the cascade has decayed below 1e-7 of its peak by then
+PEAK_LEVEL = 0.9    # the largest sample, as a fraction of full scale
+
+
+def write_wav_24(path, fs, data):
+    """24-bit PCM with Python's wave module (scipy.io.wavfile.write has no 24-bit writer)."""
+    ints = np.asarray(data, dtype=np.int64)
+    raw = bytearray()
+    for v in ints.reshape(-1):
+        raw += int(v).to_bytes(3, 'little', signed=True)
+    with wave.open(path, 'wb') as w:
+        w.setnchannels(1 if ints.ndim == 1 else ints.shape[1])
+        w.setsampwidth(3)
+        w.setframerate(fs)
+        w.writeframes(bytes(raw))
+
+
+def wav_cases():
+    cases = []
+    # Every 8th point of the importer's grid (1 kHz 2^(k/96), docs/measurements.md) from 20 Hz to
+    # 20 kHz: the check needs no interpolation.
+    freqs = [1000 * 2.0 ** (k / 12) for k in range(-51, 52) if 20 <= 1000 * 2.0 ** (k / 12) <= 20000]
+    for name, kind, fs, channels, pre in WAV_CASES:
+        sos = wav_cascade(fs)
+        n = int(IR_SECONDS * fs)
+        impulse = np.zeros(n)
+        impulse[0] = 1.0
+        ir = sig.sosfilt(sos, impulse)
+        scale = PEAK_LEVEL / np.max(np.abs(ir))
+        x = np.concatenate([np.zeros(pre), ir * scale])
+        path = os.path.join(WAV_OUT, name)
+        if kind == 'int16':
+            q = np.round(x * 32768).astype(np.int16)
+            wavfile.write(path, fs, q)
+        elif kind == 'int24':
+            write_wav_24(path, fs, np.round(x * 8388608))
+        elif kind == 'int32':
+            wavfile.write(path, fs, np.round(x * 2147483648).astype(np.int32))
+        elif kind == 'float32':
+            # Channel 1 holds a different signal (a sign-flipped, halved copy delayed by 10
+            # samples), so reading the wrong channel fails the check.
+            other = np.concatenate([np.zeros(10), -0.5 * x[:-10]])
+            wavfile.write(path, fs, np.stack([other, x], axis=1).astype(np.float32))
+        else:
+            wavfile.write(path, fs, x.astype(np.float64))
+        # Read back with scipy to prove the file is what it claims.
+        rate, back = wavfile.read(path)
+        assert rate == fs
+        back = back if back.ndim == 1 else back[:, -1]
+        full = {'int16': 32768, 'int24': 2147483648, 'int32': 2147483648}.get(kind, 1)
+        err = np.max(np.abs(back / full - x))
+        assert err < 1e-4, (name, err)
+        _, h = sig.sosfreqz(sos, worN=np.array(freqs), fs=fs)
+        h = h * scale
+        cases.append({
+            'file': 'wav/' + name, 'format': kind, 'sampleRate': fs, 'channels': channels, 'channel': channels - 1,
+            'preDelaySamples': pre, 'peakSample': int(pre + np.argmax(np.abs(ir))),
+            'gate': {'startMs': 1.0, 'lengthMs': 1000.0 * (IR_SECONDS - 0.01), 'fadeOutMs': 5.0},
+            'frequencyHz': freqs,
+            'magnitudeDb': [float(v) for v in 20 * np.log10(np.abs(h))],
+            'phaseDeg': [float(v) for v in np.degrees(np.angle(h))],
+            'sos': [[float(v) for v in row] for row in sos],
+        })
+    return cases
+
+
+# ---- minimum phase ----------------------------------------------------------------------------
+
+def analog_cookbook(kind, f0, gain_db=0.0, q=0.7071067811865476):
+    """Audio EQ Cookbook analog prototypes H(s) (s normalized to w0), as (b, a) in s."""
+    a = 10 ** (gain_db / 40)
+    if kind == 'peaking':
+        return [1, a / q, 1], [1, 1 / (a * q), 1]
+    if kind == 'lowShelf':
+        return [a, math.sqrt(a) / q * a, a * a], [a, math.sqrt(a) / q, 1]
+    if kind == 'highShelf':
+        return [a * a, math.sqrt(a) / q * a, a], [1, math.sqrt(a) / q, a]
+    if kind == 'highPass':
+        return [1, 0, 0], [1, 1 / q, 1]
+    if kind == 'lowPass':
+        return [0, 0, 1], [1, 1 / q, 1]
+    raise ValueError(kind)
+
+
+def scaled(ba, f0):
+    """H(s / w0): the prototype moved to f0."""
+    b, a = ba
+    w0 = 2 * math.pi * f0
+    n = max(len(b), len(a)) - 1
+    b = np.concatenate([np.zeros(n + 1 - len(b)), b])
+    a = np.concatenate([np.zeros(n + 1 - len(a)), a])
+    pw = np.array([w0 ** -(n - k) for k in range(n + 1)])
+    return b * pw, a * pw
+
+
+def linkwitz_riley(order, kind, f0):
+    b, a = sig.butter(order // 2, 2 * math.pi * f0, 'low' if kind == 'lowPass' else 'high', analog=True)
+    return np.polymul(b, b), np.polymul(a, a)
+
+
+def cascade(*parts):
+    b, a = np.array([1.0]), np.array([1.0])
+    for pb, pa in parts:
+        b, a = np.polymul(b, pb), np.polymul(a, pa)
+    return b, a
+
+
+def minphase_cases():
+    freqs = log_grid(20, 20000, 48)
+    w = 2 * np.pi * np.array(freqs)
+    systems = [
+        ('cookbook peaking 1 kHz +9 dB Q 4', scaled(analog_cookbook('peaking', 1000, 9, 4), 1000)),
+        ('cookbook peaking 120 Hz -12 dB Q 1.5', scaled(analog_cookbook('peaking', 120, -12, 1.5), 120)),
+        ('cookbook low shelf 200 Hz +6 dB', scaled(analog_cookbook('lowShelf', 200, 6), 200)),
+        ('cookbook high shelf 8 kHz -8 dB', scaled(analog_cookbook('highShelf', 8000, -8), 8000)),
+        ('cookbook high-pass 60 Hz Q 0.7071', scaled(analog_cookbook('highPass', 60), 60)),
+        ('Linkwitz-Riley 4 low-pass 2 kHz', linkwitz_riley(4, 'lowPass', 2000)),
+        ('Linkwitz-Riley 4 high-pass 2 kHz', linkwitz_riley(4, 'highPass', 2000)),
+        ('Butterworth 4 high-pass 30 Hz, peaking 3 kHz +4 dB Q 2, Linkwitz-Riley 8 low-pass 12 kHz',
+         cascade(sig.butter(4, 2 * math.pi * 30, 'high', analog=True), scaled(analog_cookbook('peaking', 3000, 4, 2), 3000),
+                 linkwitz_riley(8, 'lowPass', 12000))),
+    ]
+    cases = []
+    for name, (b, a) in systems:
+        _, h = sig.freqs(b, a, worN=w)
+        # Magnitude at every grid point (the input), to 12 significant digits (1e-10 dB or
+        # better); the exact phase at every 4th point (the check), to keep the file small.
+        ph = np.degrees(np.unwrap(np.angle(h)))
+        cases.append({'system': name,
+                      'magnitudeDb': [float('%.12g' % v) for v in 20 * np.log10(np.abs(h))],
+                      'checkEvery': 4, 'phaseDeg': [float('%.12g' % v) for v in ph[::4]]})
+    return cases
+
+
 def main():
     warnings.simplefilter('ignore', integ.IntegrationWarning)
     os.makedirs(WAV_OUT, exist_ok=True)
+    write('measure-wav.json', dict(VERSIONS, note='impulse responses of the cascade by scipy.signal.sosfilt, written as WAV; reference = scipy.signal.sosfreqz(sos, worN=freqs, fs=fs) times the scale written, phase relative to the first sample of the impulse response (the pre-delay removed)'), wav_cases())
+    write('measure-minphase.json', dict(VERSIONS, note='analog minimum-phase systems, exact response by scipy.signal.freqs, unwrapped phase',
+                                        frequencyHz=log_grid(20, 20000, 48)), minphase_cases())
     write('measure-smoothing.json', dict(VERSIONS, note='smoothing by its definition, integrated with scipy.integrate.quad (epsrel 1e-11)'), smoothing_cases())
 
 
