@@ -1,11 +1,13 @@
 /**
  * `attach PLAN FILE (--output ID | --system) [--offset-mm N] [--name NAME]`: the plan with the
- * measurement in FILE added, written to stdout (the plan file itself is never changed). The
+ * measurement in FILE (text columns, or a WAV impulse response with the importer's default gate
+ * and first channel) added, written to stdout (the plan file itself is never changed). The
  * measurement becomes the output's driver measurement, or one of the plan's system measurements.
  * The result is read back through the plan reader before it is written, so stdout is always a
  * valid plan; anything the contract refuses is an input error naming the field.
  */
 import { measurementName, MeasurementFileError } from '../measure/errors';
+import { importMeasurement, measurementKind as bytesKind } from '../measure/import';
 import { parseMeasurementText } from '../measure/text';
 import type { MeasuredResponse } from '../measure/types';
 import { readPlanText, readPlanValue } from '../plan/read';
@@ -82,11 +84,6 @@ export function attachMeasurement(plan: Plan, m: MeasuredResponse, source: { fil
   return checked.plan;
 }
 
-/** The measurement file's kind, from its name (".wav" is an impulse response, anything else text). */
-export function measurementKind(fileName: string): MeasurementKind {
-  return /\.wave?$/i.test(fileName) ? 'wav' : 'text';
-}
-
 export function cmdAttach(argv: string[], io: CliIo): CliResult {
   const args = parseArgs(argv, ['output', 'offset-mm', 'name'], ['system']);
   if (args.positionals.length !== 2) throw new UsageError('attach takes a PLAN file and a measurement FILE');
@@ -106,11 +103,20 @@ export function cmdAttach(argv: string[], io: CliIo): CliResult {
     throw new UsageError(`--output ${outputId}: no such output (the plan has ${plan.outputs.map((o) => o.id).join(', ')})`);
   }
 
-  const kind = measurementKind(filePath);
-  if (kind === 'wav') throw new InputError(`${filePath}: WAV impulse responses cannot be attached from the command line yet; export the response as text columns (frequency, dB, phase)`);
+  // A WAV impulse response is told by its header, whatever the file is called (the importers'
+  // rule); a host that reads text only gets text columns.
+  let kind: MeasurementKind;
   let m: MeasuredResponse;
   try {
-    m = parseMeasurementText(readOrFail(io, filePath), measurementName(filePath));
+    if (io.readBytes) {
+      const bytes = readBytesOrFail(io, filePath);
+      kind = bytesKind(bytes);
+      m = importMeasurement(filePath, bytes);
+    } else {
+      if (/\.wave?$/i.test(filePath)) throw new InputError(`${filePath}: this host reads text files only; WAV impulse responses need the command line's file reader`);
+      kind = 'text';
+      m = parseMeasurementText(readOrFail(io, filePath), measurementName(filePath));
+    }
   } catch (e) {
     if (e instanceof MeasurementFileError) throw new InputError(`${filePath}: ${e.message}`);
     throw e;
@@ -125,6 +131,14 @@ export function cmdAttach(argv: string[], io: CliIo): CliResult {
   const lines = [`attached "${added.name}" (id ${added.id}, ${added.frequencyHz.length} points, ${added.phaseDeg ? 'with phase' : 'magnitude only'}) ${where}`];
   if (replaced) lines.push(`output "${outputId}" no longer uses measurement "${replaced}" (it stays in the plan)`);
   return { code: 0, stdout: writePlanText(next), stderr: lines.join('\n') + '\n' };
+}
+
+function readBytesOrFail(io: CliIo, path: string): Uint8Array {
+  try {
+    return io.readBytes!(path);
+  } catch (e) {
+    throw new InputError(`${path}: cannot read (${(e as Error).message})`);
+  }
 }
 
 function readOrFail(io: CliIo, path: string): string {

@@ -60,8 +60,9 @@ commands:
       or CSV frequencyHz,magnitudeDb,phaseDeg; WAV: --channel from 1 (default 1), --gate ms
       before the peak and length (default 2,500); --min-phase: phase estimated from magnitude
   attach PLAN FILE (--output ID | --system) [--offset-mm N] [--name NAME]
-      the plan with the measurement in FILE (text columns: Hz, dB, optional phase) added as the
-      output's driver measurement or as a system measurement, written to stdout
+      the plan with the measurement in FILE (text columns, or a WAV impulse response: first
+      channel, default gate) added as the output's driver measurement or as a system
+      measurement, written to stdout
 
 exit codes: 0 success, 1 invalid plan or input file, 2 usage error`;
 

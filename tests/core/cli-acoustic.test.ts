@@ -4,6 +4,8 @@
  * the electrical one, which stays exactly as it was. Exit codes as everywhere: 1 a bad plan or
  * file (with its line or field), 2 a usage error.
  */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { runCli, type CliIo } from '../../src/cli/run';
 import { measurementId } from '../../src/cli/attach';
@@ -43,6 +45,7 @@ const files: Record<string, string> = {
   'x.wav': 'RIFF',
 };
 const io = memoryIo(files);
+const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 const run = (...argv: string[]) => runCli(argv, io);
 
 function attachBoth(): string {
@@ -107,7 +110,7 @@ describe('attach', () => {
     [['attach', 'plan.bqplan', 'tw.txt', '--output', 'woofer', '--offset-mm', 'far'], 2, /--offset-mm must be a number/],
     [['attach', 'plan.bqplan', 'bad.txt', '--output', 'woofer'], 1, /bad\.txt: line 2: frequency 90 Hz is below the previous one/],
     [['attach', 'plan.bqplan', 'missing.txt', '--output', 'woofer'], 1, /missing\.txt: cannot read/],
-    [['attach', 'plan.bqplan', 'x.wav', '--output', 'woofer'], 1, /x\.wav: WAV impulse responses cannot be attached from the command line yet/],
+    [['attach', 'plan.bqplan', 'x.wav', '--output', 'woofer'], 1, /x\.wav: this host reads text files only/],
     [['attach', 'plan.bqplan', 'tw.txt', '--output', 'woofer', '--offset-mm', '1e6'], 1, /outputs\[0\]\.acousticOffset\.value: must be within \+\/-100000 mm/],
     [['attach', 'plan.bqplan', 'tw.txt', '--output', 'woofer', '--name', 'a\u0007b'], 1, /measurements\[0\]\.name: must not hold control characters/],
   ])('%j -> exit %i', (argv, code, message) => {
@@ -116,6 +119,44 @@ describe('attach', () => {
     expect(r.stdout).toBe('');
     expect(r.stderr).toMatch(message);
     expect(r.stderr).not.toMatch(/\n\s+at /); // no stack trace
+  });
+});
+
+describe('attach with a byte reader (the Node command line)', () => {
+  // The WAV fixtures are written by tests/reference/make_measure_fixtures.py (scipy.io.wavfile,
+  // the impulse response of a known biquad cascade by scipy.signal.sosfilt).
+  const WAV = 'tests/reference/fixtures/wav/ir-pcm24-48000.wav';
+  const bytesIo: CliIo = {
+    readText: (path) => (path in files ? files[path] : readFileSync(ROOT + path, 'utf8')),
+    readBytes: (path) => (path in files ? new TextEncoder().encode(files[path]) : new Uint8Array(readFileSync(ROOT + path))),
+  };
+
+  it('a WAV impulse response is told by its header and attached with its phase and arrival delay', () => {
+    const r = runCli(['attach', 'plan.bqplan', WAV, '--output', 'tweeter', '--offset-mm', '-12'], bytesIo);
+    expect(r.stderr).toMatch(/attached "ir-pcm24-48000"/);
+    expect(r.code).toBe(0);
+    const p = readPlanText(r.stdout);
+    if (!p.ok) throw p.error;
+    const m = p.plan.measurements![0];
+    expect(m.source).toEqual({ fileName: 'ir-pcm24-48000.wav', kind: 'wav' });
+    expect(m.phaseDeg).not.toBeNull();
+    expect(m.delayMs).toBeGreaterThan(0);
+    expect(p.plan.outputs[1]).toMatchObject({ driverMeasurementId: 'ir-pcm24-48000', acousticOffset: { value: -12, unit: 'mm' } });
+  });
+
+  it('text through the byte reader is still text', () => {
+    const r = runCli(['attach', 'plan.bqplan', 'tw.txt', '--system'], bytesIo);
+    expect(r.code).toBe(0);
+    const p = readPlanText(r.stdout);
+    expect(p.ok && p.plan.measurements![0].source.kind).toBe('text');
+  });
+
+  it('a broken WAV header is refused with its field, no stack trace', () => {
+    files['broken.wav'] = 'RIFF\u0004\u0000\u0000\u0000WAVEfmt ';
+    const r = runCli(['attach', 'plan.bqplan', 'broken.wav', '--output', 'woofer'], bytesIo);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toMatch(/^error: broken\.wav: /);
+    expect(r.stderr).not.toMatch(/\n\s+at /);
   });
 });
 
