@@ -16,6 +16,8 @@ import { coeffsCsvText, coeffsCText, coeffsJsonText, coeffsListing, coeffsText }
 import { numText } from '../export/list';
 import { cmdExport, cmdImport, cmdProfiles, quantizedResponseText } from './export';
 import { cmdMeasure } from './measure';
+import { acousticCsvColumns, acousticJson, acousticSection, smoothingOption } from './acoustic';
+import { cmdAttach } from './attach';
 
 export interface CliIo {
   /** Reads a text file; throws an Error with a readable message when it cannot. */
@@ -37,9 +39,13 @@ commands:
       the sections of every output (or one) in the file convention
       H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)
   response PLAN [--freqs F1,F2,...] [--points N --from F --to F] [--format json|csv] [--quantize Qm.n]
+           [--acoustic [--smooth 1/N|var]]
       magnitude (dB), phase (degrees) and group delay (ms) of each unmuted output and of their sum
       (default: 512 log-spaced points from 20 Hz to 20 kHz, clipped below Nyquist);
-      --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers
+      --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers;
+      --acoustic: also the predicted acoustic response (driver measurement x chain x offset) of
+      each unmuted output with a driver measurement, and their predicted sum; null outside a
+      measurement's range; --smooth: the driver measurements smoothed first
   check PLAN [--format text|json]
       validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass)
   export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID] [--arrange as-designed|suggested]
@@ -56,6 +62,10 @@ commands:
       imported: JSON {name, frequencyHz, magnitudeDb, phaseDeg, phaseEstimated, delayMs, notes}
       or CSV frequencyHz,magnitudeDb,phaseDeg; WAV: --channel from 1 (default 1), --gate ms
       before the peak and length (default 2,500); --min-phase: phase estimated from magnitude
+  attach PLAN FILE (--output ID | --system) [--offset-mm N] [--name NAME]
+      the plan with the measurement in FILE (text columns, or a WAV impulse response: first
+      channel, default gate) added as the output's driver measurement or as a system
+      measurement, written to stdout
 
 exit codes: 0 success, 1 invalid plan or input file, 2 usage error`;
 
@@ -70,6 +80,7 @@ export const COMMANDS: Record<string, (argv: string[], io: CliIo) => CliResult> 
   profiles: (argv) => cmdProfiles(argv),
   import: cmdImport,
   measure: cmdMeasure,
+  attach: cmdAttach,
 };
 
 export function runCli(argv: readonly string[], io: CliIo): CliResult {
@@ -178,27 +189,42 @@ export function responseColumns(r: Response): ResponseColumns {
   return out;
 }
 
-export function responseCsv(freqs: Float64Array, named: { id: string; cols: ResponseColumns }[]): string {
+/** More of a `response`: JSON members after the electrical ones, CSV columns after theirs. */
+export interface ResponseAddition {
+  json: Record<string, unknown>;
+  csv: { header: string[]; row: (i: number) => string[] };
+}
+
+export function responseCsv(freqs: Float64Array, named: { id: string; cols: ResponseColumns }[], addition?: ResponseAddition): string {
   const header = ['frequencyHz'];
   for (const n of named) header.push(`${n.id}.magnitudeDb`, `${n.id}.phaseDeg`, `${n.id}.groupDelayMs`);
+  if (addition) header.push(...addition.csv.header);
   const rows = [header.join(',')];
   const cell = (x: number | null) => (x === null ? '' : numText(x));
   for (let i = 0; i < freqs.length; i++) {
     const row = [numText(freqs[i])];
     for (const n of named) row.push(cell(n.cols.magnitudeDb[i]), cell(n.cols.phaseDeg[i]), cell(n.cols.groupDelayMs[i]));
+    if (addition) row.push(...addition.csv.row(i));
     rows.push(row.join(','));
   }
   return rows.join('\n') + '\n';
 }
 
 function cmdResponse(argv: string[], io: CliIo): CliResult {
-  const args = parseArgs(argv, ['freqs', 'points', 'from', 'to', 'format', 'quantize']);
+  const args = parseArgs(argv, ['freqs', 'points', 'from', 'to', 'format', 'quantize', 'smooth'], ['acoustic']);
   const format = optChoice(args, 'format', ['json', 'csv'] as const, 'json');
+  const acoustic = args.options.get('acoustic') === true;
+  if (!acoustic && args.options.has('smooth')) throw new UsageError('--smooth applies to the acoustic prediction: add --acoustic');
+  const smoothing = smoothingOption(optString(args, 'smooth'));
   const { plan } = loadPlan(args, io);
   const quantize = optString(args, 'quantize');
+  if (quantize !== undefined && acoustic) throw new UsageError('--acoustic cannot be combined with --quantize');
   if (quantize !== undefined) return quantizedResponseText(plan, args, quantize, format);
   const freqs = responseFrequencies(args, plan.sampleRate);
-  return responseResult(designPlan(plan), plan.sampleRate, freqs, format);
+  if (!acoustic) return responseResult(designPlan(plan), plan.sampleRate, freqs, format);
+  const a = acousticSection(plan, freqs, smoothing);
+  const addition = { json: { acoustic: acousticJson(plan, a) }, csv: acousticCsvColumns(a) };
+  return responseResult(designPlan(plan), plan.sampleRate, freqs, format, {}, a.notes.map((l) => l + '\n').join(''), addition);
 }
 
 /**
@@ -212,12 +238,13 @@ export function responseResult(
   format: 'json' | 'csv',
   extra: Record<string, unknown> = {},
   stderr = '',
+  addition?: ResponseAddition,
 ): CliResult {
   const r = designedResponse(designed, freqs, sampleRate);
   const outputs = r.outputs.filter((o) => !o.mute).map((o) => ({ id: o.id, cols: responseColumns(o.response) }));
   const sum = responseColumns(r.sum);
   if (format === 'csv') {
-    return { code: 0, stdout: responseCsv(freqs, [...outputs, { id: 'sum', cols: sum }]), stderr };
+    return { code: 0, stdout: responseCsv(freqs, [...outputs, { id: 'sum', cols: sum }], addition), stderr };
   }
   const json = {
     sampleRate,
@@ -225,6 +252,7 @@ export function responseResult(
     frequencies: Array.from(freqs),
     outputs: outputs.map((o) => ({ id: o.id, ...o.cols })),
     sum,
+    ...addition?.json,
   };
   return { code: 0, stdout: JSON.stringify(json) + '\n', stderr };
 }

@@ -8,10 +8,12 @@
  */
 import { diagnostic, DiagnosticError } from '../diagnostics';
 import { maxShelfSlope, safeShelfSlope, shelfSlopeLimitText, SHELF_SLOPE_Q_MAX } from '../design/cookbook';
-import { migrate } from './migrate';
+import { FIELDS_SINCE, migrate, VERSION_ADDED } from './migrate';
 import { parseJsonText } from './json';
 import {
+  ACOUSTIC_OFFSET_UNITS,
   BAND_TYPES,
+  MEASUREMENT_KINDS,
   BESSEL_NORMALIZATIONS,
   CROSSOVER_FAMILIES,
   LIMITS,
@@ -20,8 +22,11 @@ import {
   COEFFICIENT_NAMES,
   type Band,
   type BandType,
+  type AcousticOffset,
   type BoardProfile,
   type CoefficientName,
+  type Measurement,
+  type MeasurementKind,
   type NumberFormat,
   type BesselNormalization,
   type Crossover,
@@ -76,15 +81,33 @@ export function readPlan(value: unknown): Plan {
   if (version < 1 || version > PLAN_VERSION) {
     throw new PlanError('version', `${version} is not supported: this build reads plan versions 1 to ${PLAN_VERSION}; a newer Biquadrant may open it`);
   }
-  if (version < 2 && root.profile !== undefined) {
-    throw new PlanError('profile', 'is not a field of plan version 1 (board profiles came with version 2)');
-  }
+  refuseNewerFields(root, version);
   const current = object(migrate(root, version), '');
   return readCurrent(current);
 }
 
+/**
+ * Refuses, at its path, a field that came with a version above the file's own (see FIELDS_SINCE
+ * in migrate.ts): a version 1 file with a profile, a version 2 file with measurements.
+ */
+function refuseNewerFields(root: Record<string, unknown>, version: number): void {
+  const check = (o: unknown, table: Record<string, number>, path: string) => {
+    if (typeof o !== 'object' || o === null || Array.isArray(o)) return;
+    for (const key of Object.keys(o)) {
+      const since = table[key];
+      if (since !== undefined && version < since) {
+        throw new PlanError(path ? `${path}.${key}` : key, `is not a field of plan version ${version} (${VERSION_ADDED[since]} came with version ${since})`);
+      }
+    }
+  };
+  check(root, FIELDS_SINCE.plan, '');
+  if (Array.isArray(root.outputs)) root.outputs.forEach((o, i) => check(o, FIELDS_SINCE.output, `outputs[${i}]`));
+}
+
+const PLAN_KEYS = ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs', 'profile', 'airTemperatureC', 'measurements', 'systemMeasurementIds'];
+
 function readCurrent(o: Record<string, unknown>): Plan {
-  allowKeys(o, '', ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs', 'profile']);
+  allowKeys(o, '', PLAN_KEYS);
   const sampleRate = num(o.sampleRate, 'sampleRate');
   if (sampleRate < LIMITS.sampleRateMinHz || sampleRate > LIMITS.sampleRateMaxHz) {
     throw new PlanError('sampleRate', `must be between ${LIMITS.sampleRateMinHz} and ${LIMITS.sampleRateMaxHz} Hz`);
@@ -114,7 +137,154 @@ function readCurrent(o: Record<string, unknown>): Plan {
     plan.outputs.push(out);
   });
   if (o.profile !== undefined && o.profile !== null) plan.profile = readBoardProfile(o.profile, 'profile');
+  readMeasurementFields(o, plan);
   return plan;
+}
+
+// ---- measurements (version 3) -----------------------------------------------------------------
+
+/** Reads the version 3 plan fields into `plan` and refuses every dangling or doubled reference. */
+function readMeasurementFields(o: Record<string, unknown>, plan: Plan): void {
+  if (o.airTemperatureC !== undefined) {
+    const t = num(o.airTemperatureC, 'airTemperatureC');
+    if (t < LIMITS.airTemperatureCMin || t > LIMITS.airTemperatureCMax) {
+      throw new PlanError('airTemperatureC', `must be between ${LIMITS.airTemperatureCMin} and ${LIMITS.airTemperatureCMax} degrees C`);
+    }
+    plan.airTemperatureC = t;
+  }
+  const ids = new Set<string>();
+  if (o.measurements !== undefined) {
+    const list = array(o.measurements, 'measurements');
+    if (list.length > LIMITS.measurementsMax) throw new PlanError('measurements', `must hold at most ${LIMITS.measurementsMax} measurements`);
+    plan.measurements = list.map((v, i) => {
+      const m = readMeasurement(v, `measurements[${i}]`);
+      if (ids.has(m.id)) throw new PlanError(`measurements[${i}].id`, `"${m.id}" is used by another measurement`);
+      ids.add(m.id);
+      return m;
+    });
+  }
+  const drivers = new Set<string>();
+  plan.outputs.forEach((out, i) => {
+    const id = out.driverMeasurementId;
+    if (id === undefined) return;
+    if (!ids.has(id)) throw new PlanError(`outputs[${i}].driverMeasurementId`, `"${id}" names no measurement of this plan`);
+    drivers.add(id);
+  });
+  if (o.systemMeasurementIds !== undefined) {
+    const list = array(o.systemMeasurementIds, 'systemMeasurementIds');
+    const seen = new Set<string>();
+    plan.systemMeasurementIds = list.map((v, i) => {
+      const path = `systemMeasurementIds[${i}]`;
+      const id = identifier(v, path);
+      if (!ids.has(id)) throw new PlanError(path, `"${id}" names no measurement of this plan`);
+      if (seen.has(id)) throw new PlanError(path, `"${id}" appears twice`);
+      if (drivers.has(id)) throw new PlanError(path, `"${id}" is an output's driver measurement; a measurement is of one driver or of the system, not both`);
+      seen.add(id);
+      return id;
+    });
+  }
+}
+
+const MEASUREMENT_KEYS = ['id', 'name', 'source', 'frequencyHz', 'magnitudeDb', 'phaseDeg', 'phaseEstimated', 'delayMs', 'notes'];
+
+/**
+ * Reads one measurement at `path`; throws `PlanError` with the field path. Required: `id`,
+ * `source`, `frequencyHz` (2 to 65536 frequencies > 0, strictly increasing) and `magnitudeDb` (as
+ * many). Defaults: `name` (the id), `phaseDeg` (null), `phaseEstimated` (false), `delayMs` (0),
+ * `notes` (none).
+ */
+export function readMeasurement(v: unknown, path: string): Measurement {
+  const o = object(v, path);
+  allowKeys(o, path, MEASUREMENT_KEYS);
+  const at = (key: string) => `${path}.${key}`;
+  const id = identifier(o.id, at('id'));
+  const name = o.name === undefined ? id : plainText(o.name, at('name'), LIMITS.nameMaxLength, false);
+  if (name.trim() === '') throw new PlanError(at('name'), 'must not be empty');
+  const src = object(o.source, at('source'));
+  allowKeys(src, at('source'), ['fileName', 'kind']);
+  const fileName = plainText(src.fileName, at('source.fileName'), LIMITS.fileNameMaxLength, false);
+  if (/[/\\]/.test(fileName)) throw new PlanError(at('source.fileName'), 'must be a file name without a folder');
+  const kind = oneOf(src.kind, at('source.kind'), MEASUREMENT_KINDS) as MeasurementKind;
+
+  const frequencyHz = numberList(o.frequencyHz, at('frequencyHz'), LIMITS.measurementPointsMax);
+  if (frequencyHz.length < LIMITS.measurementPointsMin) throw new PlanError(at('frequencyHz'), `must hold at least ${LIMITS.measurementPointsMin} frequencies`);
+  for (let i = 0; i < frequencyHz.length; i++) {
+    const f = frequencyHz[i];
+    if (!(f > 0)) throw new PlanError(`${at('frequencyHz')}[${i}]`, 'must be > 0 Hz');
+    if (f > LIMITS.measurementFrequencyMaxHz) throw new PlanError(`${at('frequencyHz')}[${i}]`, `must be at most ${LIMITS.measurementFrequencyMaxHz} Hz`);
+    if (i > 0 && !(f > frequencyHz[i - 1])) {
+      throw new PlanError(`${at('frequencyHz')}[${i}]`, `${f} Hz does not increase on the one before (${frequencyHz[i - 1]} Hz): frequencies must strictly increase`);
+    }
+  }
+  const n = frequencyHz.length;
+  const magnitudeDb = numberList(o.magnitudeDb, at('magnitudeDb'), n);
+  sameLength(magnitudeDb, n, at('magnitudeDb'));
+  boundAll(magnitudeDb, at('magnitudeDb'), LIMITS.measurementMagnitudeDbAbsMax, 'dB');
+  let phaseDeg: number[] | null = null;
+  if (o.phaseDeg !== undefined && o.phaseDeg !== null) {
+    phaseDeg = numberList(o.phaseDeg, at('phaseDeg'), n);
+    sameLength(phaseDeg, n, at('phaseDeg'));
+    boundAll(phaseDeg, at('phaseDeg'), LIMITS.measurementPhaseDegAbsMax, 'degrees');
+  }
+  const phaseEstimated = o.phaseEstimated === undefined ? false : bool(o.phaseEstimated, at('phaseEstimated'));
+  if (phaseEstimated && phaseDeg === null) throw new PlanError(at('phaseEstimated'), 'is true, but the measurement has no phase (phaseDeg is null)');
+  const delayMs = o.delayMs === undefined ? 0 : num(o.delayMs, at('delayMs'));
+  if (Math.abs(delayMs) > LIMITS.measurementDelayMsAbsMax) throw new PlanError(at('delayMs'), `must be within +/-${LIMITS.measurementDelayMsAbsMax} ms`);
+  const notes: string[] = [];
+  if (o.notes !== undefined) {
+    const list = array(o.notes, at('notes'));
+    if (list.length > LIMITS.measurementNotesMax) throw new PlanError(at('notes'), `must hold at most ${LIMITS.measurementNotesMax} lines`);
+    list.forEach((x, i) => notes.push(plainText(x, `${at('notes')}[${i}]`, LIMITS.measurementNoteMaxLength, true)));
+  }
+  return { id, name, source: { fileName, kind }, frequencyHz, magnitudeDb, phaseDeg, phaseEstimated, delayMs, notes };
+}
+
+function readAcousticOffset(v: unknown, path: string): AcousticOffset {
+  const o = object(v, path);
+  allowKeys(o, path, ['value', 'unit']);
+  const unit = oneOf(o.unit, `${path}.unit`, ACOUSTIC_OFFSET_UNITS) as AcousticOffset['unit'];
+  const value = num(o.value, `${path}.value`);
+  const max = unit === 'mm' ? LIMITS.acousticOffsetMmAbsMax : LIMITS.acousticOffsetMsAbsMax;
+  if (Math.abs(value) > max) throw new PlanError(`${path}.value`, `must be within +/-${max} ${unit}`);
+  return { value, unit };
+}
+
+/** An id of the plan's kind ([a-z0-9_-]{1,32}). */
+function identifier(v: unknown, path: string): string {
+  const id = str(v, path, 32);
+  if (!LIMITS.idPattern.test(id)) throw new PlanError(path, 'must be 1 to 32 of a-z, 0-9, "_" or "-"');
+  return id;
+}
+
+/** Control characters but tab: a measurement's note lines may hold tabs (the columns of a header). */
+const CONTROL_BUT_TAB = /[\u0000-\u0008\u000a-\u001f\u007f-\u009f\u2028\u2029]/;
+
+/** A name or note line: `str`'s checks, with tabs allowed when `allowTab` (line breaks never). */
+function plainText(v: unknown, path: string, maxLength: number, allowTab: boolean): string {
+  if (!allowTab) return str(v, path, maxLength);
+  const s = str(v, path, maxLength, true);
+  const m = CONTROL_BUT_TAB.exec(s);
+  if (m) throw new PlanError(path, `must not contain control characters (U+${m[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')} at character ${m.index + 1})`);
+  return s;
+}
+
+/** A list of at most `max` plain finite numbers; the first bad element is named by its index. */
+function numberList(v: unknown, path: string, max: number): number[] {
+  const list = array(v, path);
+  if (list.length > max) throw new PlanError(path, `must hold at most ${max} numbers (has ${list.length})`);
+  const out = new Array<number>(list.length);
+  for (let i = 0; i < list.length; i++) out[i] = num(list[i], `${path}[${i}]`);
+  return out;
+}
+
+function sameLength(xs: number[], n: number, path: string): void {
+  if (xs.length !== n) throw new PlanError(path, `must hold one number per frequency (${n}), not ${xs.length}`);
+}
+
+function boundAll(xs: number[], path: string, absMax: number, unit: string): void {
+  for (let i = 0; i < xs.length; i++) {
+    if (Math.abs(xs[i]) > absMax) throw new PlanError(`${path}[${i}]`, `must be within +/-${absMax} ${unit}`);
+  }
 }
 
 // ---- board profile (version 2) ----------------------------------------------------------------
@@ -230,7 +400,7 @@ function edgeSections(edge: Crossover | null): number {
 
 function readOutput(v: unknown, path: string, fs: number, inputBands: number): Output {
   const o = object(v, path);
-  allowKeys(o, path, ['id', 'name', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands']);
+  allowKeys(o, path, ['id', 'name', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands', 'driverMeasurementId', 'acousticOffset']);
   const id = str(o.id, `${path}.id`, 32);
   if (!LIMITS.idPattern.test(id)) throw new PlanError(`${path}.id`, 'must be 1 to 32 of a-z, 0-9, "_" or "-"');
   const gainDb = o.gainDb === undefined ? 0 : num(o.gainDb, `${path}.gainDb`);
@@ -246,7 +416,11 @@ function readOutput(v: unknown, path: string, fs: number, inputBands: number): O
   // Up to bandsMax bands, or more while the whole signal path stays within pathSectionsMax.
   const maxBands = Math.max(LIMITS.bandsMax, LIMITS.pathSectionsMax - inputBands - edgeSections(highPass) - edgeSections(lowPass));
   const bands = readBands(o.bands, `${path}.bands`, fs, maxBands);
-  return { id, name, gainDb, delayMs, invert, mute, highPass, lowPass, bands };
+  const out: Output = { id, name, gainDb, delayMs, invert, mute, highPass, lowPass, bands };
+  // Version 3; the reference is checked against the plan's measurements in readMeasurementFields.
+  if (o.driverMeasurementId !== undefined && o.driverMeasurementId !== null) out.driverMeasurementId = identifier(o.driverMeasurementId, `${path}.driverMeasurementId`);
+  if (o.acousticOffset !== undefined && o.acousticOffset !== null) out.acousticOffset = readAcousticOffset(o.acousticOffset, `${path}.acousticOffset`);
+  return out;
 }
 
 function readEdge(v: unknown, path: string, fs: number): Crossover | null {

@@ -1,13 +1,15 @@
 /**
- * The plan model: the in-memory shape is the file shape of `*.bqplan` version 2
+ * The plan model: the in-memory shape is the file shape of `*.bqplan` version 3
  * (docs/plan-format.md), with every default filled in by the reader. Version 2 adds the optional
- * board profile; version 1 files are migrated on reading (migrate.ts).
- * Units are in the names' documentation: Hz, dB (20 log10), ms.
+ * board profile, version 3 the measurements, the outputs' driver measurements and acoustic
+ * offsets and the air temperature; older files are migrated on reading (migrate.ts).
+ * Units are in the names' documentation: Hz, dB (20 log10), ms, mm, degrees Celsius.
  */
+import type { MeasuredResponse } from '../measure/types';
 
 export const PLAN_FORMAT = 'biquadrant.plan';
 /** The newest plan version this build writes. */
-export const PLAN_VERSION = 2;
+export const PLAN_VERSION = 3;
 
 export type BandType =
   | 'peaking'
@@ -99,6 +101,38 @@ export interface Output {
   highPass: Crossover | null;
   lowPass: Crossover | null;
   bands: Band[];
+  /** Version 3: the id of the measurement of this output's driver alone (through no filter); absent: none. */
+  driverMeasurementId?: string;
+  /** Version 3: the driver's extra distance or time to the listening point; absent: 0. */
+  acousticOffset?: AcousticOffset;
+}
+
+/**
+ * An output's acoustic offset: positive when its driver is farther from the listening point (its
+ * sound arrives later), negative when nearer. Millimetres become time through the plan's speed of
+ * sound (`airTemperatureC`).
+ */
+export interface AcousticOffset {
+  value: number;
+  unit: 'mm' | 'ms';
+}
+export const ACOUSTIC_OFFSET_UNITS: readonly AcousticOffset['unit'][] = ['mm', 'ms'];
+
+/** Where a measurement came from: the file's name (no folder) and how it was read. */
+export interface MeasurementSource {
+  /** The file name without any folder, 0..255 characters ("" when unknown). */
+  fileName: string;
+  /** "text": columns of numbers; "wav": an impulse response; "generated": computed from a model (the notes say which). */
+  kind: MeasurementKind;
+}
+export type MeasurementKind = 'text' | 'wav' | 'generated';
+export const MEASUREMENT_KINDS: readonly MeasurementKind[] = ['text', 'wav', 'generated'];
+
+/** Version 3: a measurement kept in the plan, referenced by outputs (driver) or the plan (system). */
+export interface Measurement extends MeasuredResponse {
+  /** Unique among the plan's measurements, [a-z0-9_-]{1,32}. */
+  id: string;
+  source: MeasurementSource;
 }
 
 export interface Plan {
@@ -113,7 +147,16 @@ export interface Plan {
   outputs: Output[];
   /** Version 2: how the plan's DSP board wants its coefficients; absent when none is chosen. */
   profile?: BoardProfile;
+  /** Version 3: degrees Celsius, for the speed of sound of acoustic offsets in mm; absent: 20. */
+  airTemperatureC?: number;
+  /** Version 3: the plan's measurements (driver and system); absent: none. */
+  measurements?: Measurement[];
+  /** Version 3: ids of the measurements of the whole system or the room (not of one driver). */
+  systemMeasurementIds?: string[];
 }
+
+/** The air temperature a plan without one uses, degrees Celsius. */
+export const DEFAULT_AIR_TEMPERATURE_C = 20;
 
 /** A coefficient's name in a board's list. `a0` is written only when the profile says so. */
 export type CoefficientName = 'b0' | 'b1' | 'b2' | 'a0' | 'a1' | 'a2';
@@ -194,4 +237,21 @@ export const LIMITS = {
   coefficientScaleLog2Max: 8,
   sectionBudgetMax: 1024,
   maxDelaySamplesMax: 16777216,
+  /** Measurements (version 3). */
+  measurementsMax: 64,
+  measurementPointsMin: 2,
+  measurementPointsMax: 65536,
+  measurementFrequencyMaxHz: 1e6,
+  measurementMagnitudeDbAbsMax: 1000,
+  /** Unwrapped phase grows with frequency; this only keeps the numbers sane. */
+  measurementPhaseDegAbsMax: 1e9,
+  measurementDelayMsAbsMax: 10000,
+  measurementNotesMax: 32,
+  measurementNoteMaxLength: 500,
+  fileNameMaxLength: 255,
+  /** |acoustic offset|: 100 m, or the time sound takes for it. */
+  acousticOffsetMmAbsMax: 100000,
+  acousticOffsetMsAbsMax: 300,
+  airTemperatureCMin: -40,
+  airTemperatureCMax: 60,
 } as const;

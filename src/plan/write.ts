@@ -2,7 +2,7 @@
  * Writing a plan: UTF-8 JSON, 2-space indent, one stable key order (the order of the contract),
  * so plans diff well under version control. Optional band fields are written when set.
  */
-import type { Band, BoardProfile, Crossover, Output, Plan } from './types';
+import type { Band, BoardProfile, Crossover, Measurement, Output, Plan } from './types';
 
 function edge(e: Crossover | null): Record<string, unknown> | null {
   if (!e) return null;
@@ -25,7 +25,7 @@ function band(b: Band): Record<string, unknown> {
 }
 
 function output(x: Output): Record<string, unknown> {
-  return {
+  const o: Record<string, unknown> = {
     id: x.id,
     name: x.name,
     gainDb: x.gainDb,
@@ -35,6 +35,25 @@ function output(x: Output): Record<string, unknown> {
     highPass: edge(x.highPass),
     lowPass: edge(x.lowPass),
     bands: x.bands.map(band),
+  };
+  // Version 3, written only when set: an output of an older file is written as it was read.
+  if (x.driverMeasurementId !== undefined) o.driverMeasurementId = x.driverMeasurementId;
+  if (x.acousticOffset !== undefined) o.acousticOffset = { value: x.acousticOffset.value, unit: x.acousticOffset.unit };
+  return o;
+}
+
+/** A measurement as a plain object in the contract's key order (every field written). */
+export function measurementToJson(m: Measurement): Record<string, unknown> {
+  return {
+    id: m.id,
+    name: m.name,
+    source: { fileName: m.source.fileName, kind: m.source.kind },
+    frequencyHz: [...m.frequencyHz],
+    magnitudeDb: [...m.magnitudeDb],
+    phaseDeg: m.phaseDeg === null ? null : [...m.phaseDeg],
+    phaseEstimated: m.phaseEstimated,
+    delayMs: m.delayMs,
+    notes: [...m.notes],
   };
 }
 
@@ -47,6 +66,11 @@ export function planToJson(plan: Plan): Record<string, unknown> {
   o.outputs = plan.outputs.map(output);
   // Version 2: written last, so a migrated version 1 file diffs only by its version and this block.
   if (plan.profile) o.profile = profileToJson(plan.profile);
+  // Version 3, after the profile, each only when set: a migrated older file diffs by its version
+  // line alone. The measurements go last, as they are the bulk of the file.
+  if (plan.airTemperatureC !== undefined) o.airTemperatureC = plan.airTemperatureC;
+  if (plan.systemMeasurementIds !== undefined) o.systemMeasurementIds = [...plan.systemMeasurementIds];
+  if (plan.measurements !== undefined) o.measurements = plan.measurements.map(measurementToJson);
   return o;
 }
 

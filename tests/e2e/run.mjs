@@ -13,6 +13,7 @@ register();
 const { designPlan } = await import('../../src/design/chain.ts');
 const { designedResponse } = await import('../../src/response/chain-response.ts');
 const { readPlanText } = await import('../../src/plan/read.ts');
+const { predictAcoustic } = await import('../../src/measure/acoustic.ts');
 
 const OUT = `${root}/test-results`;
 mkdirSync(OUT, { recursive: true });
@@ -564,6 +565,51 @@ async function main() {
       assert(/storage for this site is full/.test(text) && /Save the plan to a file/.test(text), `notice: ${text}`);
       await p.screenshot({ path: `${OUT}/17-storage-full.png` });
       await ctx.close();
+    });
+
+    await check('measured demo: driver measurements, predictions and the predicted sum are plotted as the core predicts; legend toggles; offset field', async () => {
+      const text = readFileSync(`${root}/assets/two-way-measured.bqplan`, 'utf8');
+      // The restored work of the check before is unsaved: opening asks first; yes, discard it.
+      const onDialog = (d) => d.accept();
+      page.on('dialog', onDialog);
+      await openPlanText(page, 'two-way-measured.bqplan', text);
+      await page.waitForFunction(() => window.__biquadrant.plotted()?.magnitude.some((c) => c.id === 'pred-sum'));
+      page.off('dialog', onDialog);
+      const comparePredicted = async () => {
+        const p = await plan();
+        const pl = await plotted();
+        const core = predictAcoustic(p, pl.frequencies);
+        const want = new Map(core.outputs.map((o) => [`pred:${o.id}`, o.response.magnitudeDb]));
+        want.set('pred-sum', core.sum.magnitudeDb);
+        let compared = 0;
+        for (const c of pl.magnitude) {
+          const ref = want.get(c.id);
+          if (!ref) continue;
+          for (let i = 0; i < c.y.length; i++) {
+            if (!Number.isFinite(ref[i])) assert(c.y[i] === null || !Number.isFinite(c.y[i]), `${c.id}[${i}]: core has no value, plot shows ${c.y[i]}`);
+            else assert(Math.abs(c.y[i] - ref[i]) < 1e-6, `${c.id} at ${pl.frequencies[i].toFixed(1)} Hz: plotted ${c.y[i]}, core ${ref[i]}`);
+          }
+          compared++;
+        }
+        assert(compared === 3, `compared ${compared} predicted curves, want 3`);
+        return pl;
+      };
+      const pl = await comparePredicted();
+      for (const id of ['meas:woofer', 'meas:tweeter', 'pred:woofer', 'pred:tweeter', 'pred-sum', 'sum']) assert(pl.magnitude.some((c) => c.id === id), `no ${id} curve`);
+      await page.screenshot({ path: `${OUT}/20-measured-demo.png` });
+      await page.getByTestId('legend-meas:woofer').click();
+      await page.getByTestId('legend-sum').click();
+      const hidden = await plotted();
+      assert(!hidden.magnitude.some((c) => c.id === 'meas:woofer' || c.id === 'sum'), 'legend did not hide the curves');
+      assert(hidden.magnitude.some((c) => c.id === 'pred-sum'), 'the predicted sum should stay');
+      await page.getByTestId('output-row').first().getByTestId('output-offset').fill('100 mm');
+      await page.getByTestId('output-row').first().getByTestId('output-offset').press('Enter');
+      const p = await plan();
+      assert(JSON.stringify(p.outputs[0].acousticOffset) === JSON.stringify({ value: 100, unit: 'mm' }), `offset is ${JSON.stringify(p.outputs[0].acousticOffset)}`);
+      await comparePredicted();
+      await page.screenshot({ path: `${OUT}/21-measured-offset.png` });
+      await page.getByTestId('legend-meas:woofer').click();
+      await page.getByTestId('legend-sum').click();
     });
 
     await check('no console errors or page errors', async () => {
