@@ -84,14 +84,14 @@ export function cmdImport(argv: string[], io: CliIo): CliResult {
     throw new InputError(`${path}: cannot read (${(e as Error).message})`);
   }
   const r = parseCoefficientList(text, profile, format);
-  if (!r.ok) throw new InputError(`${path}: ${r.error.message}`);
+  if (!r.ok) throw new InputError(`${printable(path)}: ${r.error.message}`);
   try {
     // The default name is the file's, on one line and within the name limit.
     const name = optString(args, 'name') ?? `Imported from ${printable(path)}`.slice(0, LIMITS.nameMaxLength);
     const plan = importedPlan(r.list, name, rate ?? r.list.sampleRate ?? 48000, { name: '--name', sampleRate: '--sample-rate' });
     return { code: 0, stdout: writePlanText(plan), stderr: '' };
   } catch (e) {
-    throw new InputError(`${path}: ${(e as Error).message}`);
+    throw new InputError(`${printable(path)}: ${(e as Error).message}`);
   }
 }
 

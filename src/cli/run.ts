@@ -14,6 +14,7 @@ import { designedResponse, logFrequencies, MAGNITUDE_FLOOR_DB, type Response } f
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
 import { coeffsCsvText, coeffsCText, coeffsJsonText, coeffsListing, coeffsText } from './coeffs';
 import { numText } from '../export/list';
+import { printable } from '../export/format';
 import { cmdExport, cmdImport, cmdProfiles, quantizedResponseText } from './export';
 import { cmdMeasure } from './measure';
 import { acousticCsvColumns, acousticJson, acousticSection, smoothingOption } from './acoustic';
@@ -108,10 +109,11 @@ export function loadPlan(args: ParsedArgs, io: CliIo): { plan: Plan; path: strin
   try {
     text = io.readText(path);
   } catch (e) {
-    throw new InputError(`${path}: cannot read (${(e as Error).message})`);
+    throw new InputError(`${printable(path)}: cannot read (${printable((e as Error).message)})`);
   }
   const r = readPlanText(text);
-  if (!r.ok) throw new InputError(`${path}: ${r.error.message}`);
+  // One line whatever the file name holds.
+  if (!r.ok) throw new InputError(`${printable(path)}: ${r.error.message}`);
   return { plan: r.plan, path };
 }
 

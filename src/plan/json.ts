@@ -45,12 +45,99 @@ function shown(ch: string | undefined): string {
   return /^[\x21-\x7e]$/.test(ch) ? `'${ch}'` : `U+${ch.codePointAt(0)!.toString(16).toUpperCase().padStart(4, '0')}`;
 }
 
-/** Where JSON.parse stopped: its "position N" (V8), or the first offset where a prefix stops parsing. */
+/** Where JSON.parse stopped: its "position N" when the engine gives one, else our own scan. */
 function errorOffset(text: string, message: string): number {
   const m = /position (\d+)/.exec(message);
   if (m) return Number(m[1]);
-  if (/Unexpected end of JSON input/.test(message)) return text.length;
-  return -1;
+  return firstSyntaxError(text);
+}
+
+const NUMBER = /-?(0|[1-9]\d*)(\.\d+)?([eE][+-]?\d+)?/y;
+const LITERAL = /true|false|null/y;
+
+/**
+ * The offset of the first character that cannot continue a JSON text (RFC 8259 grammar), or
+ * text.length for text that ends too soon; -1 when the text is valid. An explicit stack of open
+ * containers, no recursion.
+ */
+export function firstSyntaxError(text: string): number {
+  const stack: ('{' | '[')[] = [];
+  // What may come next: a value, an object key (or '}' right after '{'), ':' , or ',' / a closer.
+  let expect: 'value' | 'key' | 'first-key' | 'first-value' | 'colon' | 'after' = 'value';
+  let i = 0;
+  const ws = () => {
+    while (i < text.length && ' \t\n\r'.includes(text[i])) i++;
+  };
+  const string = (): boolean => {
+    i++;
+    while (i < text.length) {
+      const c = text.charCodeAt(i);
+      if (c === 0x22) {
+        i++;
+        return true;
+      }
+      if (c < 0x20) return false;
+      if (c === 0x5c) {
+        const e = text[i + 1];
+        if (e === 'u') {
+          if (!/^[0-9a-fA-F]{4}$/.test(text.slice(i + 2, i + 6))) return false;
+          i += 6;
+        } else if (e !== undefined && '"\\/bfnrt'.includes(e)) i += 2;
+        else return false;
+      } else i++;
+    }
+    return false;
+  };
+  for (;;) {
+    ws();
+    if (i >= text.length) return expect === 'after' && stack.length === 0 ? -1 : text.length;
+    const c = text[i];
+    if (expect === 'value' || expect === 'first-value') {
+      if (c === ']' && expect === 'first-value') {
+        stack.pop();
+        i++;
+        expect = 'after';
+      } else if (c === '{' || c === '[') {
+        stack.push(c);
+        i++;
+        expect = c === '{' ? 'first-key' : 'first-value';
+      } else if (c === '"') {
+        if (!string()) return i >= text.length ? text.length : i;
+        expect = 'after';
+      } else {
+        NUMBER.lastIndex = i;
+        LITERAL.lastIndex = i;
+        const m = NUMBER.exec(text) ?? LITERAL.exec(text);
+        if (!m || m.index !== i) return i;
+        i += m[0].length;
+        expect = 'after';
+      }
+    } else if (expect === 'key' || expect === 'first-key') {
+      if (c === '}' && expect === 'first-key') {
+        stack.pop();
+        i++;
+        expect = 'after';
+      } else if (c === '"') {
+        if (!string()) return i >= text.length ? text.length : i;
+        expect = 'colon';
+      } else return i;
+    } else if (expect === 'colon') {
+      if (c !== ':') return i;
+      i++;
+      expect = 'value';
+    } else {
+      const top = stack[stack.length - 1];
+      if (top === undefined) return i;
+      if (c === ',') {
+        i++;
+        expect = top === '{' ? 'key' : 'value';
+      } else if ((c === '}' && top === '{') || (c === ']' && top === '[')) {
+        stack.pop();
+        i++;
+        expect = 'after';
+      } else return i;
+    }
+  }
 }
 
 export function parseJsonText(raw: string): JsonResult {

@@ -11,6 +11,7 @@ import { diagnosticMessage, targetPath, type Diagnostic } from '../../src/diagno
 const messageOf = (d: Diagnostic | undefined): string | undefined => (d ? diagnosticMessage(d) : undefined);
 import { runCli, type CliIo } from '../../src/cli/run';
 import { readPlanText, readPlanValue } from '../../src/plan/read';
+import { firstSyntaxError } from '../../src/plan/json';
 import type { Plan } from '../../src/plan/types';
 import { buildExportList } from '../../src/export/list';
 import { EXPORT_FORMATS, formatExport } from '../../src/export/format';
@@ -195,6 +196,26 @@ describe('shelf slope: refused within a margin of the unit circle, warned above 
   });
 });
 
+describe('the syntax scan agrees with JSON.parse (RFC 8259): valid or not, and where V8 names a position, the same one', () => {
+  const texts = ['{"a": 1,}', '[1 2]', '{"a" 1}', '{"a":"b\nc"}', '{', '{"a":1}}', '[[[1]]', '{"a": 01}', '{"a": [1, {"b": null}], "c": -1.5e-3}', '"x"', ' [ ] ', '{"a": tru}', '{"a": x}', ''];
+  for (const t of texts) {
+    it(JSON.stringify(t), () => {
+      let position: number | null = null;
+      let valid = true;
+      try {
+        JSON.parse(t);
+      } catch (e) {
+        valid = false;
+        const m = /position (\d+)/.exec((e as Error).message);
+        if (m) position = Number(m[1]);
+      }
+      const scan = firstSyntaxError(t);
+      expect(scan === -1).toBe(valid);
+      if (position !== null) expect(scan).toBe(position);
+    });
+  }
+});
+
 describe('deep nesting, byte order mark, syntax errors', () => {
   const deep = (d: number) => JSON.stringify(base()).replace('"bands":[{"id":"b1"', `"bands":[${'['.repeat(d)}NaN${']'.repeat(d)},{"id":"b1"`);
   it('a bare NaN 5,000 levels deep: a refusal at its (shortened) path, no stack overflow', () => {
@@ -225,6 +246,12 @@ describe('deep nesting, byte order mark, syntax errors', () => {
     if (!r.ok) expect(r.error.message).toBe("not valid JSON at line 3, column 16 ('x')".replace("('x')", "(unexpected 'x')"));
     const cli = runCli(['check', 'x.bqplan'], memoryIo({ 'x.bqplan': text }));
     expect(cli.stderr).toBe("error: x.bqplan: not valid JSON at line 3, column 16 (unexpected 'x')\n");
+    // Where the engine's message has no position ("Unexpected token 'x'"), our own scan finds it.
+    const bare = readPlanText('{\n  "name": x\n}');
+    expect(bare.ok).toBe(false);
+    if (!bare.ok) expect(bare.error.message).toBe("not valid JSON at line 2, column 11 (unexpected 'x')");
+    const empty = readPlanText('');
+    if (!empty.ok) expect(empty.error.message).toBe('not valid JSON at line 1, column 1 (unexpected end of text)');
     const nl = readPlanText('{"name": "a\nb"}');
     expect(nl.ok).toBe(false);
     if (!nl.ok) expect(nl.error.message).toBe('not valid JSON at line 1, column 12 (unexpected U+000A)');

@@ -313,3 +313,21 @@ describe('plan notes', () => {
     expect(doc.plan.notes).toBe('Measured at the mix position.');
   });
 });
+
+describe('shelf slope field: the safe range in its hint, a slope past it refused in place', () => {
+  it('a +6 dB high shelf by slope: hint "at most 16.25", S 17.4 refused (cookbook S_max 17.6 puts the poles on the circle)', () => {
+    const plan = demo();
+    plan.input.bands.push({ id: 'hs', type: 'highShelf', frequency: 5000, gainDb: 6, slope: 1, enabled: true });
+    doc.load(plan, null);
+    view.select(INPUT, 'hs');
+    app = mount(ChainEditor, { target });
+    flushSync();
+    const slope = field('band-slope');
+    // S_safe = (A + 1/A) / (A + 1/A - 2 + 1/100), A = 10^(6/40): 16.2539..., rounded down.
+    expect(slope.title).toContain('at most 16.25 for this gain');
+    expect(slope.title).toContain('0.01 to 1 keeps the shelf monotonic');
+    type(slope, '17.4');
+    expect(errorOf('band-slope')).toMatch(/slope: must be at most 16\.25 for a 6 dB shelf/);
+    expect(doc.plan.input.bands.find((b) => b.id === 'hs')?.slope).toBe(1);
+  });
+});
