@@ -268,12 +268,19 @@ function plainText(v: unknown, path: string, maxLength: number, allowTab: boolea
   return s;
 }
 
-/** A list of at most `max` plain finite numbers; the first bad element is named by its index. */
+/**
+ * A list of at most `max` plain finite numbers; the first bad element is named by its index.
+ * The path of an element is built only for an error: the app validates the whole plan on every
+ * edit, and measurements hold thousands of numbers.
+ */
 function numberList(v: unknown, path: string, max: number): number[] {
   const list = array(v, path);
   if (list.length > max) throw new PlanError(path, `must hold at most ${max} numbers (has ${list.length})`);
   const out = new Array<number>(list.length);
-  for (let i = 0; i < list.length; i++) out[i] = num(list[i], `${path}[${i}]`);
+  for (let i = 0; i < list.length; i++) {
+    const x = list[i];
+    out[i] = typeof x === 'number' && Number.isFinite(x) ? x : num(x, `${path}[${i}]`);
+  }
   return out;
 }
 

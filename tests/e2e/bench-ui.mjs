@@ -9,6 +9,30 @@ import { buildWeb, launchBrowser, serveWeb } from './serve.mjs';
 
 const OUTPUTS = 8;
 const BANDS = 16;
+/**
+ * Driver measurements on the first outputs (sub .. mid, the dragged one included), so each frame
+ * also recomputes a predicted response and the predicted sum: 1/96 octave from 20 Hz to 20 kHz,
+ * the density of the WAV importer's grid. BENCH_MEASUREMENTS=0 leaves them out.
+ */
+const MEASUREMENTS = Number(process.env.BENCH_MEASUREMENTS ?? 4);
+
+/** A smooth invented driver: a 2nd-order-like rise and fall in dB, phase following it. */
+function benchMeasurement(k) {
+  const frequencyHz = Array.from({ length: 957 }, (_, i) => 20 * Math.pow(2, i / 96));
+  const lo = 30 * (k + 1);
+  const hi = 3000 * (k + 1);
+  return {
+    id: `drv${k}`,
+    name: `Driver ${k + 1} (invented)`,
+    source: { fileName: `drv${k}.txt`, kind: 'generated' },
+    frequencyHz,
+    magnitudeDb: frequencyHz.map((f) => -10 * Math.log10(1 + (lo / f) ** 4) - 10 * Math.log10(1 + (f / hi) ** 4)),
+    phaseDeg: frequencyHz.map((f) => 180 * (Math.atan(lo / f) - Math.atan(f / hi)) / Math.PI),
+    phaseEstimated: false,
+    delayMs: 2.9,
+    notes: ['invented for the UI benchmark'],
+  };
+}
 const FRAMES = Number(process.env.BENCH_FRAMES || 240);
 /** Pointer report interval of the simulated drag (60 Hz; many mice report at 125 Hz or more). */
 const MOVE_INTERVAL_MS = Number(process.env.BENCH_MOVE_MS || 1000 / 60);
@@ -34,9 +58,12 @@ export function benchPlan() {
       enabled: true,
     })),
   }));
+  const measurements = Array.from({ length: MEASUREMENTS }, (_, k) => benchMeasurement(k));
+  measurements.forEach((m, k) => (outputs[k].driverMeasurementId = m.id));
   return {
     format: 'biquadrant.plan',
-    version: 1,
+    version: MEASUREMENTS > 0 ? 3 : 1,
+    ...(MEASUREMENTS > 0 ? { measurements } : {}),
     name: 'UI benchmark: 8 outputs x 16 bands',
     sampleRate: 48000,
     input: { bands: [{ id: 'b1', type: 'peaking', frequency: 100, gainDb: -2, q: 2, enabled: true }] },
@@ -120,7 +147,7 @@ async function main() {
       const p = window.__biquadrant.plotted();
       return { points: p.frequencies.length, curves: p.magnitude.length };
     });
-    console.log(`bench:ui  ${OUTPUTS} outputs x ${BANDS} bands, ${plotted.curves} curves x 3 plots, ${plotted.points} points per curve, window 1000 px`);
+    console.log(`bench:ui  ${OUTPUTS} outputs x ${BANDS} bands, ${MEASUREMENTS} driver measurements, ${plotted.curves} curves x 3 plots, ${plotted.points} points per curve, window 1000 px`);
     const out = await drag(page, 'b8');
     report('output band drag', out);
     // An input-chain band: every output and the sum change each frame (informational).
