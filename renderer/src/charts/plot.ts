@@ -7,10 +7,15 @@
  * cost over 100 ms, so the curves never enter Chart.js at all.
  *
  * Curves are named (`id`), come in any number, and have a style: a plain line, a ghost (a
- * snapshot drawn faded and wide beneath the live curves) or markers (poles and zeros). Curves
- * listed as "hot" go on a transparent overlay canvas above the chart, which can be redrawn alone
- * (a drag frame redraws two polylines, not the whole plot). Both layers use the same `AxisMap`s,
- * built once per redraw from the chart's area, so they line up to the pixel.
+ * snapshot drawn faded and wide beneath the live curves) or markers (poles and zeros).
+ *
+ * Three layers: Chart.js's canvas (axes and grid, redrawn only when a range or the size
+ * changes), a curves canvas the adapter adds above it (the still curves), and, when the view
+ * gives one, a transparent overlay on top (curves listed as "hot", and the owner's marks). A
+ * drag frame redraws only the overlay (two polylines, not the whole plot), an edit only the
+ * curves; in software rendering, repainting grid and labels with every edit cost more than the
+ * curves. Every layer draws through the same `AxisMap`s, built once per layout from the chart's
+ * area, so they line up to the pixel.
  */
 import type { ChartConfiguration, Plugin, Scale } from 'chart.js';
 import { axisMap, columnPath, type AxisKind, type AxisMap } from './mapping';
@@ -95,6 +100,8 @@ export class Plot {
   readonly chart: Chart<'line'>;
   readonly canvas: HTMLCanvasElement;
   readonly overlay: HTMLCanvasElement | null;
+  /** The still curves, between Chart.js's canvas and the overlay. */
+  readonly curvesCanvas: HTMLCanvasElement;
   #spec: PlotSpec;
   #theme: Theme;
   #series: readonly PlotSeries[] = [];
@@ -113,6 +120,11 @@ export class Plot {
     this.overlay = overlay;
     this.#spec = spec;
     this.#theme = readTheme();
+    const layer = document.createElement('canvas');
+    layer.setAttribute('aria-hidden', 'true');
+    layer.style.cssText = 'position:absolute;left:0;top:0;pointer-events:none;';
+    canvas.insertAdjacentElement('afterend', layer);
+    this.curvesCanvas = layer;
     this.chart = new Chart(canvas, this.#config());
   }
 
@@ -122,10 +134,9 @@ export class Plot {
     const theme = () => this.#theme;
     const curves: Plugin<'line'> = {
       id: 'typed-curves',
-      afterDatasetsDraw(chart) {
-        self.#drawBase(chart.ctx);
-      },
       afterDraw() {
+        // The layout may have moved: the curve layers follow every Chart.js draw.
+        self.#drawCurves();
         self.drawOverlay();
       },
     };
@@ -227,7 +238,8 @@ export class Plot {
       this.chart.update('none'); // lays out, draws, and the plugins draw the curves and overlay
       this.counters.chartUpdates++;
     } else if (baseChanged) {
-      this.chart.draw();
+      this.#drawCurves();
+      this.drawOverlay();
     } else {
       this.drawOverlay();
     }
@@ -271,9 +283,34 @@ export class Plot {
     return this.#maps;
   }
 
-  #drawBase(ctx: CanvasRenderingContext2D): void {
+  /** A layer canvas cleared and sized to the chart's canvas, its context scaled to CSS pixels. */
+  #layer(canvas: HTMLCanvasElement, desynchronized: boolean): CanvasRenderingContext2D | null {
+    const ctx = canvas.getContext('2d', { desynchronized });
+    if (!ctx) return null;
+    const base = this.chart.canvas;
+    if (canvas.width !== base.width || canvas.height !== base.height) {
+      canvas.width = base.width;
+      canvas.height = base.height;
+    }
+    if (canvas === this.curvesCanvas) {
+      // Chart.js sizes its canvas in CSS pixels by style; the curves layer follows it.
+      if (canvas.style.width !== base.style.width) canvas.style.width = base.style.width;
+      if (canvas.style.height !== base.style.height) canvas.style.height = base.style.height;
+    }
+    const dpr = this.chart.currentDevicePixelRatio || 1;
+    ctx.setTransform(1, 0, 0, 1, 0, 0);
+    ctx.clearRect(0, 0, canvas.width, canvas.height);
+    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+    return ctx;
+  }
+
+  #drawCurves(): void {
+    // Chart.js draws once inside its constructor, before `chart` is set.
+    if (!this.chart) return;
     const maps = this.maps();
     if (!maps) return;
+    const ctx = this.#layer(this.curvesCanvas, false);
+    if (!ctx) return;
     this.counters.baseDraws++;
     const hot = this.#hot;
     this.#stroke(ctx, maps, this.#series.filter((s) => !hot?.has(s.id)));
@@ -282,23 +319,13 @@ export class Plot {
   /** Redraws the overlay alone: hot curves, then the owner's extras. */
   drawOverlay(): void {
     const canvas = this.overlay;
-    // Chart.js draws once inside its constructor, before `chart` is set.
     if (!canvas || !this.chart) return;
     const maps = this.maps();
     if (!maps) return;
     // A low-latency hint: the overlay may reach the screen without waiting for the page's commit.
-    const ctx = canvas.getContext('2d', { desynchronized: true });
+    const ctx = this.#layer(canvas, true);
     if (!ctx) return;
     this.counters.overlayDraws++;
-    const base = this.chart.canvas;
-    if (canvas.width !== base.width || canvas.height !== base.height) {
-      canvas.width = base.width;
-      canvas.height = base.height;
-    }
-    const dpr = this.chart.currentDevicePixelRatio || 1;
-    ctx.setTransform(1, 0, 0, 1, 0, 0);
-    ctx.clearRect(0, 0, canvas.width, canvas.height);
-    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
     const hot = this.#hot;
     if (hot) this.#stroke(ctx, maps, this.#series.filter((s) => hot.has(s.id)));
     this.overlayExtras?.(ctx, maps, this.#theme);
@@ -310,8 +337,10 @@ export class Plot {
     ctx.beginPath();
     ctx.rect(a.left, a.top, a.width, a.height);
     ctx.clip();
-    ctx.lineJoin = 'round';
-    ctx.lineCap = 'round';
+    // Bevel joins and butt caps: with about one point per pixel column the joins do not show,
+    // and round ones cost several times more to rasterize in software rendering.
+    ctx.lineJoin = 'bevel';
+    ctx.lineCap = 'butt';
     for (const s of list) {
       const yMap = s.axis === 'y2' && maps.y2 ? maps.y2 : maps.y;
       const { path, count } = this.#path(s, maps.x, yMap);
@@ -403,5 +432,6 @@ export class Plot {
 
   destroy(): void {
     this.chart.destroy();
+    this.curvesCanvas.remove();
   }
 }
