@@ -85,7 +85,8 @@ const HANDLE_RADIUS = 9;
 const HIT_RADIUS = 13;
 const RAD_TO_DEG = 180 / Math.PI;
 
-const TITLES: Record<PlotKind, string> = { magnitude: 'magnitude dB', phase: 'phase \u00b0', groupDelay: 'group delay ms' };
+/** Short enough to fit beside the shortest plot (the group delay plot at 600 px tall windows). */
+const TITLES: Record<PlotKind, string> = { magnitude: 'magnitude dB', phase: 'phase \u00b0', groupDelay: 'delay ms' };
 
 function dataFor(c: PlotCurve, kind: PlotKind, phaseMode: PlotFrame['phaseMode']): Float64Array | undefined {
   if (c.only && !c.only.includes(kind)) return undefined;
