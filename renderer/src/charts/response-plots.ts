@@ -162,7 +162,9 @@ export class ResponsePlots {
       } else {
         if (!hot) this.#yRanges.groupDelay = groupDelayRange(series.filter((s) => s.style !== 'ghost').map((s) => s.y), frame.groupDelayFull);
         y = this.#yRanges.groupDelay;
-        this.#clips = series
+        // Marks follow the data when idle, like the range (a drag frame draws two curves, no more).
+        if (!hot)
+          this.#clips = series
           .filter((s) => s.style !== 'ghost')
           .flatMap((s) => clippedPeaks(s.y, y[0], y[1]).map((p) => ({ ...p, curveId: s.id, label: s.label, color: s.color, frequency: frame.frequencies[p.index] })));
       }
