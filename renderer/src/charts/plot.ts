@@ -108,6 +108,7 @@ export class Plot {
   #hot: ReadonlySet<string> | null = null;
   #ranges: PlotRanges | null = null;
   #paths = new Map<string, PathCache>();
+  #lastBaseKey = '';
   #maps: PlotMaps | null = null;
   #mapsKey = '';
   /** Extra drawing on the overlay (crosshair, handles, clip marks), after the hot curves. */
@@ -224,7 +225,9 @@ export class Plot {
       prev.yStep !== ranges.yStep ||
       prev.xStep !== ranges.xStep ||
       String(prev.y2) !== String(ranges.y2);
-    const baseChanged = rangesChanged || this.#baseKey(this.#series, this.#hot) !== this.#baseKey(series, hot);
+    const key = this.#baseKey(series, hot && this.overlay ? hot : null);
+    const baseChanged = rangesChanged || key !== this.#lastBaseKey;
+    this.#lastBaseKey = key;
     this.#ranges = ranges;
     this.#series = series;
     this.#hot = hot && this.overlay ? hot : null;
