@@ -102,10 +102,24 @@ function hasRawBands(plan: Plan, o: Output): boolean {
   return [...plan.input.bands, ...o.bands].some((b) => b.enabled && b.type === 'raw');
 }
 
+/**
+ * The last analysis of each output and what it was made from. Plans are immutable and an edit
+ * replaces only what it touches, so after a nudge of one band the headroom search (the costly
+ * part) runs again for that output alone; an input-chain or sample-rate change redoes them all.
+ */
+const outputMemo = new WeakMap<Output, { input: Plan['input']; sampleRate: number; analysis: OutputAnalysis }>();
+
 export function analyzePlan(plan: Plan): PlanAnalysis {
   const warnings: Warning[] = [];
-  const input = designInput(plan);
-  const outputs = plan.outputs.map((o) => analyzeOutput(plan, designOutput(plan, o, input)));
+  let input: ReturnType<typeof designInput> | null = null;
+  const outputs = plan.outputs.map((o) => {
+    const hit = outputMemo.get(o);
+    if (hit && hit.input === plan.input && hit.sampleRate === plan.sampleRate) return hit.analysis;
+    input ??= designInput(plan);
+    const analysis = analyzeOutput(plan, designOutput(plan, o, input));
+    outputMemo.set(o, { input: plan.input, sampleRate: plan.sampleRate, analysis });
+    return analysis;
+  });
 
   nearNyquist(plan, plan.input.bands, 'input', warnings);
   steepShelves(plan.input.bands, 'input', warnings);

@@ -597,8 +597,8 @@ async function main() {
       const pl = await comparePredicted();
       for (const id of ['meas:woofer', 'meas:tweeter', 'pred:woofer', 'pred:tweeter', 'pred-sum', 'sum']) assert(pl.magnitude.some((c) => c.id === id), `no ${id} curve`);
       await page.screenshot({ path: `${OUT}/20-measured-demo.png` });
-      await page.getByTestId('legend-meas:woofer').click();
-      await page.getByTestId('legend-sum').click();
+      await page.locator('[data-testid="legend-key"][data-curve="meas:woofer"]').first().click();
+      await page.locator('[data-testid="legend-key"][data-curve="sum"]').first().click();
       const hidden = await plotted();
       assert(!hidden.magnitude.some((c) => c.id === 'meas:woofer' || c.id === 'sum'), 'legend did not hide the curves');
       assert(hidden.magnitude.some((c) => c.id === 'pred-sum'), 'the predicted sum should stay');
@@ -608,8 +608,8 @@ async function main() {
       assert(JSON.stringify(p.outputs[0].acousticOffset) === JSON.stringify({ value: 100, unit: 'mm' }), `offset is ${JSON.stringify(p.outputs[0].acousticOffset)}`);
       await comparePredicted();
       await page.screenshot({ path: `${OUT}/21-measured-offset.png` });
-      await page.getByTestId('legend-meas:woofer').click();
-      await page.getByTestId('legend-sum').click();
+      await page.locator('[data-testid="legend-key"][data-curve="meas:woofer"]').first().click();
+      await page.locator('[data-testid="legend-key"][data-curve="sum"]').first().click();
     });
 
     await check('no console errors or page errors', async () => {

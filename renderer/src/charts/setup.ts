@@ -1,30 +1,15 @@
 /**
- * Chart.js with only what the app uses registered (smaller bundle, no animation code paths), and
- * the shared pieces: the log frequency ticks and theme colours.
+ * Chart.js with only what the plot adapter uses registered (a line chart without datasets: axes,
+ * ticks, titles and grid; smaller bundle, no animation code paths), and the shared pieces: the
+ * log frequency ticks and theme colours.
  */
-import { Chart, LineController, LineElement, LinearScale, LogarithmicScale, PointElement, ScatterController, type Scale } from 'chart.js';
+import { Chart, LineController, LineElement, LinearScale, LogarithmicScale, PointElement, type Scale } from 'chart.js';
 import { formatFrequencyShort } from '../../../src/ui/units';
 import { cssColor } from '../lib/palette';
 
-Chart.register(LineController, ScatterController, LineElement, PointElement, LinearScale, LogarithmicScale);
+Chart.register(LineController, LineElement, PointElement, LinearScale, LogarithmicScale);
 
 export { Chart };
-
-/**
- * The options every line plot here shares (Chart.js's own performance notes): data already in
- * its internal shape, no parsing, no animation (enables path caching), no Chart.js event
- * handling (the app does its own hover and drag), and no legend or tooltip of Chart.js's.
- */
-export const STATIC_PLOT_OPTIONS = {
-  parsing: false,
-  normalized: true,
-  animation: false,
-  responsive: true,
-  maintainAspectRatio: false,
-  events: [] as never[],
-  spanGaps: false,
-  plugins: { legend: { display: false }, tooltip: { enabled: false } } as never,
-} as const;
 
 export interface Theme {
   text: string;

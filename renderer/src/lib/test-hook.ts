@@ -11,6 +11,10 @@ export interface PlottedCurve {
   label: string;
   color: string;
   width: number;
+  /** line, ghost (a snapshot) or markers. */
+  style: string;
+  /** base: the still layer; overlay: redrawn every drag frame. */
+  layer: string;
   y: number[];
 }
 
@@ -21,6 +25,10 @@ export interface Plotted {
   phase: PlottedCurve[];
   groupDelay: PlottedCurve[];
   phaseMode: 'wrapped' | 'unwrapped';
+  /** Group-delay peaks beyond the axis (marked at its edge). */
+  groupDelayClipped: { id: string; frequency: number; value: number; side: 'above' | 'below' }[];
+  /** The band handles as drawn (Hz, dB). */
+  handles: { id: string; frequency: number; db: number }[];
 }
 
 export interface TestHook {
@@ -31,12 +39,14 @@ export interface TestHook {
   handle: (bandId: string) => { x: number; y: number } | null;
   /** Page (client) coordinates of a point (Hz, dB) of the magnitude plot. */
   magnitudePoint: (frequencyHz: number, db: number) => { x: number; y: number } | null;
-  cacheStats: () => (CacheStats & { chartUpdates: number; overlayDraws: number }) | null;
+  /** The Z-plane's shown window (real, imaginary), or null when that view is not open. */
+  zplaneWindow: () => { x: [number, number]; y: [number, number] } | null;
+  cacheStats: () => (CacheStats & { chartUpdates: number; baseDraws: number; overlayDraws: number }) | null;
   /** Milliseconds per drag frame, appended as frames are painted. */
   frameTimes: number[];
   /** Count of plot updates (each redraws the three plots). */
   plotUpdates: number;
-  /** Milliseconds spent in each plot update (Chart.js update and draw of the three plots). */
+  /** Milliseconds spent in each plot update (all three plots). */
   drawTimes: number[];
   /** Milliseconds from a drag's input event to the next animation frame callback (before paint). */
   rafTimes: number[];
@@ -56,6 +66,7 @@ export const testHook: TestHook = {
   plotted: () => null,
   handle: () => null,
   magnitudePoint: () => null,
+  zplaneWindow: () => null,
   cacheStats: () => null,
   frameTimes: [],
   plotUpdates: 0,

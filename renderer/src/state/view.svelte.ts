@@ -34,8 +34,6 @@ export class ViewState {
   #range = $state.raw<[number, number] | null>(null);
   #magRange = $state.raw<[number, number]>([-30, 12]);
   #solo = $state.raw<readonly string[]>([]);
-  /** Curve ids the legend has hidden (view only, not saved). */
-  #hiddenCurves = $state.raw<ReadonlySet<string>>(new Set());
   #notice = $state.raw<Notice | null>(null);
   #noticeTimer: ReturnType<typeof setTimeout> | null = null;
 
@@ -125,17 +123,6 @@ export class ViewState {
 
   toggleSolo(outputId: string): void {
     this.#solo = this.#solo.includes(outputId) ? this.#solo.filter((s) => s !== outputId) : [...this.#solo, outputId];
-  }
-
-  /** Whether the legend has hidden the curve `id` ("sum", "out:<id>", "pred:<id>", ...). */
-  isHidden(id: string): boolean {
-    return this.#hiddenCurves.has(id);
-  }
-
-  toggleCurve(id: string): void {
-    const next = new Set(this.#hiddenCurves);
-    if (!next.delete(id)) next.add(id);
-    this.#hiddenCurves = next;
   }
 
   /** Solo ids that still exist in the plan. */
