@@ -26,29 +26,48 @@ export interface CliResult {
   stderr: string;
 }
 
-export const USAGE = `usage: biquadrant <command> [options]
-
-commands:
-  coeffs PLAN [--format json|csv|text|c] [--output ID]
+/** Each command's usage block, as `COMMAND --help` prints it and the full usage lists it. */
+export const COMMAND_USAGE: Record<string, string> = {
+  coeffs: `  coeffs PLAN [--format json|csv|text|c] [--output ID]
       the sections of every output (or one) in the file convention
-      H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)
-  response PLAN [--freqs F1,F2,...] [--points N --from F --to F] [--format json|csv] [--quantize Qm.n]
+      H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)`,
+  response: `  response PLAN [--freqs F1,F2,...] [--points N --from F --to F] [--format json|csv] [--quantize Qm.n]
       magnitude (dB), phase (degrees) and group delay (ms) of each unmuted output and of their sum
       (default: 512 log-spaced points from 20 Hz to 20 kHz, clipped below Nyquist);
-      --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers
-  check PLAN [--format text|json]
-      validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass)
-  export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID] [--arrange as-designed|suggested]
+      --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers`,
+  check: `  check PLAN [--format text|json]
+      validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass)`,
+  export: `  export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID] [--arrange as-designed|suggested]
       the coefficient list a DSP board wants, per its board profile (default: the plan's own,
       else "float"); refused when an output needs more sections than the board runs.
       Saturated coefficients and sections unstable after quantization are flagged on stderr.
-      --arrange suggested: sections reordered and scaled so no internal node peaks above 0 dBFS
-  profiles [--format text|json]
-      the built-in board profiles
-  import FILE --profile NAME|FILE [--format auto|text|csv|json|c] [--name NAME] [--sample-rate HZ]
-      a coefficient list (any export format) as a plan of raw bands, written to stdout
+      --arrange suggested: sections reordered and scaled so no internal node peaks above 0 dBFS`,
+  profiles: `  profiles [--format text|json]
+      the built-in board profiles`,
+  import: `  import FILE --profile NAME|FILE [--format auto|text|csv|json|c] [--name NAME] [--sample-rate HZ]
+      a coefficient list (any export format) as a plan of raw bands, written to stdout`,
+};
 
-exit codes: 0 success, 1 invalid plan or input file, 2 usage error`;
+const EXIT_CODES = 'exit codes: 0 success, 1 invalid plan or input file, 2 usage error';
+
+export const USAGE = `usage: biquadrant <command> [options]
+
+commands:
+${Object.values(COMMAND_USAGE).join('\n')}
+  --version
+      the version of biquadrant
+
+${EXIT_CODES}`;
+
+/** The usage of one command, for `COMMAND --help`. */
+export function commandUsage(command: string): string {
+  return `usage: biquadrant ${COMMAND_USAGE[command].trimStart()}\n\n${EXIT_CODES}`;
+}
+
+/** What the adapter knows that the pure core cannot read: the package's version. */
+export interface CliInfo {
+  version: string;
+}
 
 export class InputError extends Error {}
 
@@ -62,14 +81,18 @@ export const COMMANDS: Record<string, (argv: string[], io: CliIo) => CliResult> 
   import: cmdImport,
 };
 
-export function runCli(argv: readonly string[], io: CliIo): CliResult {
+export function runCli(argv: readonly string[], io: CliIo, info: CliInfo = { version: 'unknown' }): CliResult {
   const [command, ...rest] = argv;
   try {
     if (command === undefined || command === '--help' || command === '-h' || command === 'help') {
       return { code: command === undefined ? 2 : 0, stdout: command === undefined ? '' : USAGE + '\n', stderr: command === undefined ? USAGE + '\n' : '' };
     }
-    const fn = COMMANDS[command];
+    if (command === '--version' || command === '-V') return { code: 0, stdout: `biquadrant ${info.version}\n`, stderr: '' };
+    const fn = Object.hasOwn(COMMANDS, command) ? COMMANDS[command] : undefined;
     if (!fn) throw new UsageError(`unknown command "${command}"`);
+    // `COMMAND --help` anywhere before a lone `--`: that command's usage, whatever else is given.
+    const beforeEnd = rest.indexOf('--') < 0 ? rest : rest.slice(0, rest.indexOf('--'));
+    if (beforeEnd.includes('--help') || beforeEnd.includes('-h')) return { code: 0, stdout: commandUsage(command) + '\n', stderr: '' };
     return fn(rest, io);
   } catch (e) {
     if (e instanceof UsageError) return { code: 2, stdout: '', stderr: `error: ${e.message}\n\n${USAGE}\n` };
