@@ -12,8 +12,10 @@
  * A new kind of diagnostic adds its code and values to `DiagnosticValues`; both renderers are
  * `Record`s over the codes, so the compiler names every place that must learn the new code.
  */
-import type { EdgeKind } from './plan/types';
-import { formatFrequency } from './ui/units';
+import { formatFrequency } from './format';
+
+/** A crossover edge of an output (as `EdgeKind` in plan/types; not imported, so the reader can import this file). */
+type EdgeKind = 'highPass' | 'lowPass';
 
 export type Severity = 'info' | 'warning' | 'danger' | 'error';
 

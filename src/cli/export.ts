@@ -14,7 +14,8 @@ import type { BoardProfile, Plan } from '../plan/types';
 import { parseJsonText } from '../plan/read';
 import { profileToJson, writePlanText } from '../plan/write';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
-import { checkOutputId, InputError, loadPlan, responseFrequencies, responseResult, type CliIo, type CliResult } from './run';
+import { checkOutputId, InputError, loadPlan, type CliIo, type CliResult } from './io';
+import { responseFrequencies, responseResult } from './response';
 
 /** --profile: a built-in by key or name, else a JSON file (a profile, or a plan holding one). */
 export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): BoardProfile {

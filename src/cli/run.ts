@@ -1,30 +1,20 @@
 /**
  * The command line, as pure code: arguments and a file reader in, stdout, stderr and an exit code
  * out (0 success, 1 an invalid plan or input file, 2 a usage error). `src/node/cli.ts` is the Node
- * adapter that runs it on process.argv.
+ * adapter that runs it on process.argv. Shared pieces live in io.ts and response.ts, so the
+ * command modules (this one, export.ts) import them and not each other.
  */
 import { analyzePlan } from '../analysis/check';
 import { diagnosticMessage, targetPath } from '../diagnostics';
-import { HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION } from '../analysis/thresholds';
-import { designPlan, type DesignedOutput } from '../design/chain';
-import { readPlanText } from '../plan/read';
-import type { Plan } from '../plan/types';
-import { designedResponse, logFrequencies, MAGNITUDE_FLOOR_DB, type Response } from '../response/chain-response';
-import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
+import { designPlan } from '../design/chain';
+import { optChoice, optString, parseArgs, UsageError } from './args';
 import { coeffsCsvText, coeffsCText, coeffsJsonText, coeffsListing, coeffsText } from './coeffs';
-import { numText } from '../export/list';
 import { cmdExport, cmdImport, cmdProfiles, quantizedResponseText } from './export';
+import { checkOutputId, InputError, loadPlan, type CliIo, type CliResult } from './io';
+import { responseFrequencies, responseResult } from './response';
 
-export interface CliIo {
-  /** Reads a text file; throws an Error with a readable message when it cannot. */
-  readText(path: string): string;
-}
-
-export interface CliResult {
-  code: 0 | 1 | 2;
-  stdout: string;
-  stderr: string;
-}
+export { checkOutputId, InputError, loadPlan, type CliIo, type CliResult } from './io';
+export { responseColumns, responseCsv, responseFrequencies, responseResult, toDegreesWrapped, type ResponseColumns } from './response';
 
 /** Each command's usage block, as `COMMAND --help` prints it and the full usage lists it. */
 export const COMMAND_USAGE: Record<string, string> = {
@@ -69,8 +59,6 @@ export interface CliInfo {
   version: string;
 }
 
-export class InputError extends Error {}
-
 /** Registered commands; later features add theirs here. */
 export const COMMANDS: Record<string, (argv: string[], io: CliIo) => CliResult> = {
   coeffs: cmdCoeffs,
@@ -101,28 +89,6 @@ export function runCli(argv: readonly string[], io: CliIo, info: CliInfo = { ver
   }
 }
 
-/** Reads and validates the plan named by the single positional argument. */
-export function loadPlan(args: ParsedArgs, io: CliIo): { plan: Plan; path: string } {
-  if (args.positionals.length === 0) throw new UsageError('a PLAN file is required');
-  if (args.positionals.length > 1) throw new UsageError(`one PLAN file only (got ${args.positionals.join(' ')})`);
-  const path = args.positionals[0];
-  let text: string;
-  try {
-    text = io.readText(path);
-  } catch (e) {
-    throw new InputError(`${path}: cannot read (${(e as Error).message})`);
-  }
-  const r = readPlanText(text);
-  if (!r.ok) throw new InputError(`${path}: ${r.error.message}`);
-  return { plan: r.plan, path };
-}
-
-export function checkOutputId(plan: Plan, id: string | undefined): void {
-  if (id !== undefined && !plan.outputs.some((o) => o.id === id)) {
-    throw new UsageError(`--output ${id}: no such output (the plan has ${plan.outputs.map((o) => o.id).join(', ')})`);
-  }
-}
-
 function cmdCoeffs(argv: string[], io: CliIo): CliResult {
   const args = parseArgs(argv, ['format', 'output']);
   const format = optChoice(args, 'format', ['json', 'csv', 'text', 'c'] as const, 'json');
@@ -135,75 +101,6 @@ function cmdCoeffs(argv: string[], io: CliIo): CliResult {
   return { code: 0, stdout: text, stderr: '' };
 }
 
-/** The frequency list of `response`: --freqs, or --points/--from/--to (defaults 512, 20 Hz, 20 kHz). */
-export function responseFrequencies(args: ParsedArgs, sampleRate: number): Float64Array {
-  const nyquist = sampleRate / 2;
-  const list = optString(args, 'freqs');
-  if (list !== undefined) {
-    if (args.options.has('points') || args.options.has('from') || args.options.has('to')) {
-      throw new UsageError('--freqs cannot be combined with --points, --from or --to');
-    }
-    const parts = list.split(',').map((s) => s.trim());
-    const freqs = parts.map((s) => {
-      const f = Number(s);
-      if (s === '' || !Number.isFinite(f)) throw new UsageError(`--freqs: "${s}" is not a number`);
-      if (f < 0 || f > nyquist) throw new UsageError(`--freqs: ${s} Hz is outside 0 .. ${nyquist} Hz (Nyquist at ${sampleRate} Hz)`);
-      return f;
-    });
-    return Float64Array.from(freqs);
-  }
-  const points = optNumber(args, 'points') ?? 512;
-  if (!Number.isInteger(points) || points < 1 || points > 1_000_000) throw new UsageError('--points must be a whole number from 1 to 1000000');
-  const from = optNumber(args, 'from') ?? 20;
-  // "Clipped below Nyquist": the default top is 20 kHz or 99.9% of Nyquist, whichever is lower.
-  const to = optNumber(args, 'to') ?? Math.min(HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION * nyquist);
-  if (!(from > 0)) throw new UsageError('--from must be > 0 Hz');
-  if (to > nyquist) throw new UsageError(`--to must be at most Nyquist (${nyquist} Hz)`);
-  if (!(to >= from)) throw new UsageError('--to must not be below --from');
-  if (points > 1 && to === from) throw new UsageError('--from and --to must differ when --points > 1');
-  return logFrequencies(points, from, to);
-}
-
-const RAD_TO_DEG = 180 / Math.PI;
-
-/** Degrees wrapped to (-180, 180] from radians in (-pi, pi]. */
-export function toDegreesWrapped(rad: number): number {
-  const d = rad * RAD_TO_DEG;
-  return d <= -180 ? d + 360 : d > 180 ? d - 360 : d;
-}
-
-export interface ResponseColumns {
-  magnitudeDb: (number | null)[];
-  phaseDeg: (number | null)[];
-  groupDelayMs: (number | null)[];
-}
-
-export function responseColumns(r: Response): ResponseColumns {
-  const n = r.magnitudeDb.length;
-  const out: ResponseColumns = { magnitudeDb: [], phaseDeg: [], groupDelayMs: [] };
-  for (let i = 0; i < n; i++) {
-    const m = r.magnitudeDb[i];
-    const floor = !(m >= MAGNITUDE_FLOOR_DB);
-    out.magnitudeDb.push(Number.isFinite(m) ? m : null);
-    out.phaseDeg.push(Number.isFinite(m) ? toDegreesWrapped(r.phaseRad[i]) : null);
-    out.groupDelayMs.push(floor || !Number.isFinite(r.groupDelayMs[i]) ? null : r.groupDelayMs[i]);
-  }
-  return out;
-}
-
-export function responseCsv(freqs: Float64Array, named: { id: string; cols: ResponseColumns }[]): string {
-  const header = ['frequencyHz'];
-  for (const n of named) header.push(`${n.id}.magnitudeDb`, `${n.id}.phaseDeg`, `${n.id}.groupDelayMs`);
-  const rows = [header.join(',')];
-  const cell = (x: number | null) => (x === null ? '' : numText(x));
-  for (let i = 0; i < freqs.length; i++) {
-    const row = [numText(freqs[i])];
-    for (const n of named) row.push(cell(n.cols.magnitudeDb[i]), cell(n.cols.phaseDeg[i]), cell(n.cols.groupDelayMs[i]));
-    rows.push(row.join(','));
-  }
-  return rows.join('\n') + '\n';
-}
-
 function cmdResponse(argv: string[], io: CliIo): CliResult {
   const args = parseArgs(argv, ['freqs', 'points', 'from', 'to', 'format', 'quantize']);
   const format = optChoice(args, 'format', ['json', 'csv'] as const, 'json');
@@ -212,34 +109,6 @@ function cmdResponse(argv: string[], io: CliIo): CliResult {
   if (quantize !== undefined) return quantizedResponseText(plan, args, quantize, format);
   const freqs = responseFrequencies(args, plan.sampleRate);
   return responseResult(designPlan(plan), plan.sampleRate, freqs, format);
-}
-
-/**
- * The `response` output of designed outputs: each unmuted output and the sum, as CSV or JSON.
- * `extra` fields follow `sampleRate` in the JSON (the quantized branch names its format there).
- */
-export function responseResult(
-  designed: readonly DesignedOutput[],
-  sampleRate: number,
-  freqs: Float64Array,
-  format: 'json' | 'csv',
-  extra: Record<string, unknown> = {},
-  stderr = '',
-): CliResult {
-  const r = designedResponse(designed, freqs, sampleRate);
-  const outputs = r.outputs.filter((o) => !o.mute).map((o) => ({ id: o.id, cols: responseColumns(o.response) }));
-  const sum = responseColumns(r.sum);
-  if (format === 'csv') {
-    return { code: 0, stdout: responseCsv(freqs, [...outputs, { id: 'sum', cols: sum }]), stderr };
-  }
-  const json = {
-    sampleRate,
-    ...extra,
-    frequencies: Array.from(freqs),
-    outputs: outputs.map((o) => ({ id: o.id, ...o.cols })),
-    sum,
-  };
-  return { code: 0, stdout: JSON.stringify(json) + '\n', stderr };
 }
 
 function cmdCheck(argv: string[], io: CliIo): CliResult {

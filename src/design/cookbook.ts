@@ -6,6 +6,7 @@
  * Every type builds (b0, b1, b2, a0, a1, a2) and `normalizeSection` divides by a0 once.
  * Symbols follow the cookbook: A = 10^(gainDb/40), w0 = 2 pi f0 / fs, alpha = sin(w0) / (2 Q).
  */
+import { maxShelfSlope } from '../plan/shelf';
 import type { Band, BandType } from '../plan/types';
 import { normalizeSection, type Section } from './section';
 
@@ -51,15 +52,8 @@ export function bandwidthOctavesFromQ(q: number, frequencyHz: number, sampleRate
   return (2 * Math.asinh(1 / (2 * q))) / (Math.LN2 * ratio);
 }
 
-/**
- * The largest shelf slope S for a gain: the cookbook's alpha needs (A + 1/A)(1/S - 1) + 2 >= 0,
- * so S <= (A + 1/A) / (A + 1/A - 2). Any S works at 0 dB.
- */
-export function maxShelfSlope(gainDb: number): number {
-  const A = Math.pow(10, gainDb / 40);
-  const s = A + 1 / A;
-  return s - 2 <= 0 ? Infinity : s / (s - 2);
-}
+/** The largest shelf slope S for a gain (src/plan/shelf.ts, where the reader needs it). */
+export { maxShelfSlope };
 
 /** The Q a shelf gets: its own `q` when set, else from its slope (default S = 1). */
 export function shelfAlpha(band: Band, sinW0: number, A: number): number {

@@ -6,7 +6,7 @@
  * contract does not know is refused too, rather than dropped: a plan never loses data silently.
  * Older versions are migrated (see `migrate.ts`); a version this build does not know is refused.
  */
-import { maxShelfSlope } from '../design/cookbook';
+import { maxShelfSlope } from './shelf';
 import { diagnostic, DiagnosticError } from '../diagnostics';
 import { migrate } from './migrate';
 import {
