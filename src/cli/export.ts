@@ -53,7 +53,7 @@ export function cmdExport(argv: string[], io: CliIo): CliResult {
   const profile = resolveProfile(args, io, plan);
   const r = buildExportList(plan, profile, outputId, { arrangement });
   if (!r.ok) {
-    return { code: 1, stdout: '', stderr: r.problems.map((p) => `error: ${path}: ${p.message}\n`).join('') };
+    return { code: 1, stdout: '', stderr: r.problems.map((p) => `error: ${path}: ${diagnosticMessage(p)}\n`).join('') };
   }
   const warnings = exportWarnings(r.list);
   return { code: 0, stdout: formatExport(r.list, format), stderr: warnings.map((w) => w + '\n').join('') };
