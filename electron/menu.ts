@@ -9,7 +9,7 @@
  */
 import type { BaseWindow, MenuItemConstructorOptions } from 'electron';
 import { basename, dirname } from 'node:path';
-import type { MenuCommand } from '../src/ipc';
+import { accelerator, commandSpec, type MenuCommand } from '../src/ipc';
 
 export interface MenuActions {
   /** A document command for `window` (the focused window; undefined when none is, e.g. macOS with all windows closed). */
@@ -26,13 +26,9 @@ export interface MenuOptions {
   developer: boolean;
 }
 
-function commandItem(
-  actions: MenuActions,
-  label: string,
-  command: MenuCommand,
-  accelerator?: string,
-): MenuItemConstructorOptions {
-  return { label, accelerator, click: (_item, window) => actions.command(command, window) };
+/** A document command's item: label and accelerator from the command table (src/ipc.ts). */
+function commandItem(actions: MenuActions, command: MenuCommand, mac: boolean): MenuItemConstructorOptions {
+  return { label: commandSpec(command).label, accelerator: accelerator(command, mac), click: (_item, window) => actions.command(command, window) };
 }
 
 export function recentLabel(path: string): string {
@@ -49,9 +45,9 @@ export function buildMenuTemplate(actions: MenuActions, options: MenuOptions): M
   const file: MenuItemConstructorOptions = {
     label: '&File',
     submenu: [
-      commandItem(actions, '&New Plan', 'new', 'CmdOrCtrl+N'),
+      commandItem(actions, 'new', mac),
       { label: 'New &Window', accelerator: 'CmdOrCtrl+Shift+N', click: () => actions.newWindow() },
-      commandItem(actions, '&Open…', 'open', 'CmdOrCtrl+O'),
+      commandItem(actions, 'open', mac),
       {
         label: 'Open &Recent',
         submenu: [
@@ -61,11 +57,11 @@ export function buildMenuTemplate(actions: MenuActions, options: MenuOptions): M
         ],
       },
       { type: 'separator' },
-      commandItem(actions, '&Save', 'save', 'CmdOrCtrl+S'),
-      commandItem(actions, 'Save &As…', 'saveAs', 'CmdOrCtrl+Shift+S'),
-      commandItem(actions, 'Re&vert to Saved', 'revert'),
+      commandItem(actions, 'save', mac),
+      commandItem(actions, 'saveAs', mac),
+      commandItem(actions, 'revert', mac),
       { type: 'separator' },
-      commandItem(actions, '&Export Coefficients…', 'export', 'CmdOrCtrl+E'),
+      commandItem(actions, 'export', mac),
       { type: 'separator' },
       { role: 'close', label: '&Close Window' },
       ...(mac ? [] : [{ type: 'separator' } as MenuItemConstructorOptions, { role: 'quit', label: 'E&xit' } as MenuItemConstructorOptions]),
@@ -77,8 +73,8 @@ export function buildMenuTemplate(actions: MenuActions, options: MenuOptions): M
     submenu: [
       // Not the `undo`/`redo` roles: the renderer keeps the plan's history (and decides whether
       // a focused text field gets the keystroke instead).
-      commandItem(actions, '&Undo', 'undo', 'CmdOrCtrl+Z'),
-      commandItem(actions, '&Redo', 'redo', mac ? 'Cmd+Shift+Z' : 'Ctrl+Y'),
+      commandItem(actions, 'undo', mac),
+      commandItem(actions, 'redo', mac),
       { type: 'separator' },
       { role: 'cut' },
       { role: 'copy' },
@@ -90,10 +86,10 @@ export function buildMenuTemplate(actions: MenuActions, options: MenuOptions): M
   const view: MenuItemConstructorOptions = {
     label: '&View',
     submenu: [
-      commandItem(actions, '&Response', 'view:response', 'CmdOrCtrl+1'),
-      commandItem(actions, '&Z-plane', 'view:zplane', 'CmdOrCtrl+2'),
-      commandItem(actions, '&Time', 'view:time', 'CmdOrCtrl+3'),
-      commandItem(actions, 'E&xport', 'view:export', 'CmdOrCtrl+4'),
+      commandItem(actions, 'view:response', mac),
+      commandItem(actions, 'view:zplane', mac),
+      commandItem(actions, 'view:time', mac),
+      commandItem(actions, 'view:export', mac),
       { type: 'separator' },
       { role: 'zoomIn' },
       { role: 'zoomOut' },

@@ -12,9 +12,10 @@
  * A new kind of diagnostic adds its code and values to `DiagnosticValues`; both renderers are
  * `Record`s over the codes, so the compiler names every place that must learn the new code.
  */
-import type { EdgeKind } from './plan/types';
-import { formatFrequency } from './ui/units';
-import { dbText, peakPlaceText } from './analysis/headroom-text';
+import { dbText, formatFrequency, peakPlaceText } from './format';
+
+/** A crossover edge of an output (as `EdgeKind` in plan/types; not imported, so the reader can import this file). */
+type EdgeKind = 'highPass' | 'lowPass';
 
 export type Severity = 'info' | 'warning' | 'danger' | 'error';
 
@@ -67,6 +68,10 @@ export interface DiagnosticValues {
   'export-unstable': { sections: { outputId: string; index: number; from: string }[] };
   'export-saturated': { sections: { outputId: string; index: number; names: string[] }[] };
   'export-gain-saturated': { outputIds: string[] };
+  // refusals of an export list
+  'export-budget': { outputId: string; sections: number; budget: number };
+  'export-delay': { outputId: string; delaySamples: number; maxSamples: number };
+  'export-rate': { boardHz: number; planHz: number; refusal: Diagnostic<'plan-field'> };
 }
 
 export type DiagnosticCode = keyof DiagnosticValues;
@@ -134,6 +139,14 @@ const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
   'export-unstable': (d) => `UNSTABLE after quantization: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.from})`).join(', ')}`,
   'export-saturated': (d) => `saturated coefficients: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
   'export-gain-saturated': (d) => `output gain saturated: ${d.values.outputIds.join(', ')}`,
+  'export-budget': (d) => {
+    const extra = d.values.sections - d.values.budget;
+    return `output "${d.values.outputId}" needs ${d.values.sections} sections, ${extra} more than the board's ${d.values.budget}: remove or merge ${extra} band(s) or crossover section(s)`;
+  },
+  'export-delay': (d) =>
+    `output "${d.values.outputId}" delays ${d.values.delaySamples} samples, ${d.values.delaySamples - d.values.maxSamples} more than the board's ${d.values.maxSamples}`,
+  'export-rate': (d) =>
+    `the board runs at ${d.values.boardHz} Hz, the plan at ${d.values.planHz} Hz; redesigning at ${d.values.boardHz} Hz fails: ${diagnosticMessage(d.values.refusal)}`,
   'rate-misfit': (d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';

@@ -54,21 +54,106 @@ export type MenuCommand =
   | 'view:time'
   | 'view:export';
 
-export const MENU_COMMANDS: readonly MenuCommand[] = [
-  'new',
-  'open',
-  'save',
-  'saveAs',
-  'revert',
-  'reload',
-  'undo',
-  'redo',
-  'export',
-  'view:response',
-  'view:zplane',
-  'view:time',
-  'view:export',
+/** A key chord. `mod` is Ctrl, or Cmd on macOS; `key` is a letter (upper case) or a digit. */
+export interface Shortcut {
+  key: string;
+  mod?: true;
+  shift?: true;
+  alt?: true;
+}
+
+export interface CommandSpec {
+  id: MenuCommand;
+  /** The menu's label; `&` marks the access key (Windows, Linux). */
+  label: string;
+  /** The chords that run it; the first is the menu's accelerator and the one tooltips name. */
+  shortcuts: readonly Shortcut[];
+  /** The same chords in macOS's order, where it differs (Redo: Cmd+Shift+Z first). */
+  macShortcuts?: readonly Shortcut[];
+}
+
+/**
+ * The one command table: the Electron menu (electron/menu.ts), the renderer's key map
+ * (`commandForKey`) and the toolbar's tooltips (`shortcutText`) are all generated from it, so
+ * a shortcut cannot differ between them. View switching uses Alt+digit: in a browser Ctrl+digit
+ * switches tabs before the page sees it.
+ */
+export const COMMAND_TABLE: readonly CommandSpec[] = [
+  { id: 'new', label: '&New Plan', shortcuts: [{ key: 'N', mod: true }] },
+  { id: 'open', label: '&Open…', shortcuts: [{ key: 'O', mod: true }] },
+  { id: 'save', label: '&Save', shortcuts: [{ key: 'S', mod: true }] },
+  { id: 'saveAs', label: 'Save &As…', shortcuts: [{ key: 'S', mod: true, shift: true }] },
+  { id: 'revert', label: 'Re&vert to Saved', shortcuts: [] },
+  { id: 'export', label: '&Export Coefficients…', shortcuts: [{ key: 'E', mod: true }] },
+  { id: 'undo', label: '&Undo', shortcuts: [{ key: 'Z', mod: true }] },
+  {
+    id: 'redo',
+    label: '&Redo',
+    shortcuts: [
+      { key: 'Y', mod: true },
+      { key: 'Z', mod: true, shift: true },
+    ],
+    macShortcuts: [{ key: 'Z', mod: true, shift: true }],
+  },
+  { id: 'view:response', label: '&Response', shortcuts: [{ key: '1', alt: true }] },
+  { id: 'view:zplane', label: '&Z-plane', shortcuts: [{ key: '2', alt: true }] },
+  { id: 'view:time', label: '&Time', shortcuts: [{ key: '3', alt: true }] },
+  { id: 'view:export', label: 'E&xport', shortcuts: [{ key: '4', alt: true }] },
 ];
+
+/**
+ * Every command main may send: the table's, and `reload`, which main sends alone (after the user
+ * chose "Reload from Disk" when the plan changed on disk) and no menu or key runs.
+ */
+export const MENU_COMMANDS: readonly MenuCommand[] = [...COMMAND_TABLE.map((c) => c.id), 'reload'];
+
+export function commandSpec(id: MenuCommand): CommandSpec {
+  const spec = COMMAND_TABLE.find((c) => c.id === id);
+  if (!spec) throw new Error(`no command ${id}`);
+  return spec;
+}
+
+function chords(spec: CommandSpec, mac: boolean): readonly Shortcut[] {
+  return mac && spec.macShortcuts ? spec.macShortcuts : spec.shortcuts;
+}
+
+/** The menu accelerator of a command (Electron's syntax), or undefined when it has no shortcut. */
+export function accelerator(id: MenuCommand, mac: boolean): string | undefined {
+  const s = chords(commandSpec(id), mac)[0];
+  if (!s) return undefined;
+  return [s.mod ? 'CmdOrCtrl' : null, s.alt ? 'Alt' : null, s.shift ? 'Shift' : null, s.key].filter((p) => p !== null).join('+');
+}
+
+/** The chord as a tooltip names it: "Ctrl+Shift+S", "Alt+1"; on macOS "⇧⌘S", "⌥1". */
+export function shortcutText(id: MenuCommand, mac: boolean): string | null {
+  const s = chords(commandSpec(id), mac)[0];
+  if (!s) return null;
+  if (mac) return `${s.alt ? '⌥' : ''}${s.shift ? '⇧' : ''}${s.mod ? '⌘' : ''}${s.key}`;
+  return [s.mod ? 'Ctrl' : null, s.alt ? 'Alt' : null, s.shift ? 'Shift' : null, s.key].filter((p) => p !== null).join('+');
+}
+
+/** The fields of a keyboard event the key map reads. */
+export interface KeyChord {
+  key: string;
+  /** `KeyboardEvent.code` ("Digit1"): Alt+digit types another character on some layouts. */
+  code?: string;
+  ctrlKey: boolean;
+  metaKey: boolean;
+  shiftKey: boolean;
+  altKey: boolean;
+}
+
+function matches(s: Shortcut, e: KeyChord): boolean {
+  const key = s.key.toLowerCase();
+  const sameKey = e.key.toLowerCase() === key || e.code === (/^\d$/.test(key) ? `Digit${key}` : `Key${s.key.toUpperCase()}`);
+  return sameKey && !!s.mod === (e.ctrlKey || e.metaKey) && !!s.shift === e.shiftKey && !!s.alt === e.altKey;
+}
+
+/** The command a key press runs in the renderer (every chord of the table, on every platform), or null. */
+export function commandForKey(e: KeyChord): MenuCommand | null {
+  for (const spec of COMMAND_TABLE) if (spec.shortcuts.some((s) => matches(s, e)) || spec.macShortcuts?.some((s) => matches(s, e))) return spec.id;
+  return null;
+}
 
 export interface DesktopApi {
   /** Shows an open dialog (`*.bqplan`) and reads the chosen plan; a bad file is refused with the reader's message. */

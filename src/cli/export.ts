@@ -14,7 +14,8 @@ import { LIMITS, type BoardProfile, type Plan } from '../plan/types';
 import { parseJsonText } from '../plan/read';
 import { profileToJson, writePlanText } from '../plan/write';
 import { optChoice, optNumber, optString, parseArgs, UsageError, type ParsedArgs } from './args';
-import { checkOutputId, InputError, loadPlan, responseFrequencies, responseResult, type CliIo, type CliResult } from './run';
+import { checkOutputId, InputError, loadPlan, type CliIo, type CliResult } from './io';
+import { responseFrequencies, responseResult } from './response';
 
 /** --profile: a built-in by key or name, else a JSON file (a profile, or a plan holding one). */
 export function resolveProfile(args: ParsedArgs, io: CliIo, plan: Plan | null): BoardProfile {
@@ -52,7 +53,7 @@ export function cmdExport(argv: string[], io: CliIo): CliResult {
   const profile = resolveProfile(args, io, plan);
   const r = buildExportList(plan, profile, outputId, { arrangement });
   if (!r.ok) {
-    return { code: 1, stdout: '', stderr: r.problems.map((p) => `error: ${path}: ${p.message}\n`).join('') };
+    return { code: 1, stdout: '', stderr: r.problems.map((p) => `error: ${path}: ${diagnosticMessage(p)}\n`).join('') };
   }
   const warnings = exportWarnings(r.list);
   return { code: 0, stdout: formatExport(r.list, format), stderr: warnings.map((w) => w + '\n').join('') };

@@ -95,12 +95,8 @@ export interface ExportList {
 
 export type ExportNote = Diagnostic<'export-redesigned' | 'export-raw-rate' | 'export-scaling-level' | 'export-scaling-short' | 'export-unstable' | 'export-saturated' | 'export-gain-saturated'>;
 
-export interface ExportProblem {
-  code: 'budget' | 'sample-rate' | 'delay';
-  /** An output id or a field path. */
-  where: string;
-  message: string;
-}
+/** Why a list cannot be exported: too many sections, too long a delay, or the plan fails at the board's rate. */
+export type ExportProblem = Diagnostic<'export-budget' | 'export-delay' | 'export-rate'>;
 
 export type ExportResult = { ok: true; list: ExportList } | { ok: false; problems: ExportProblem[] };
 
@@ -110,14 +106,7 @@ export function planAtProfileRate(plan: Plan, profile: BoardProfile): { ok: true
   if (fs === plan.sampleRate) return { ok: true, plan };
   const r = readPlanValue({ ...planToJson(plan), sampleRate: fs });
   if (!r.ok) {
-    return {
-      ok: false,
-      problem: {
-        code: 'sample-rate',
-        where: r.error.path,
-        message: `the board runs at ${fs} Hz, the plan at ${plan.sampleRate} Hz; redesigning at ${fs} Hz fails: ${r.error.message}`,
-      },
-    };
+    return { ok: false, problem: diagnostic('export-rate', 'error', r.error.diagnostic.target, { boardHz: fs, planHz: plan.sampleRate, refusal: r.error.diagnostic }) };
   }
   return { ok: true, plan: r.plan };
 }
@@ -162,20 +151,11 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
       sections = sections.length === 0 ? [{ b0: gain, b1: 0, b2: 0, a1: 0, a2: 0, from: `${o.id}/gain` }] : sections.map((s, k) => (k === 0 ? scaleNumerator(s, gain) : s));
     }
     if (sections.length > profile.sectionBudget) {
-      const extra = sections.length - profile.sectionBudget;
-      problems.push({
-        code: 'budget',
-        where: o.id,
-        message: `output "${o.id}" needs ${sections.length} sections, ${extra} more than the board's ${profile.sectionBudget}: remove or merge ${extra} band(s) or crossover section(s)`,
-      });
+      problems.push(diagnostic('export-budget', 'error', { kind: 'output', outputId: o.id }, { outputId: o.id, sections: sections.length, budget: profile.sectionBudget }));
     }
     const delaySamples = Math.round((o.delayMs * fs) / 1000);
     if (profile.maxDelaySamples !== null && delaySamples > profile.maxDelaySamples) {
-      problems.push({
-        code: 'delay',
-        where: `outputs[${i}].delayMs`,
-        message: `output "${o.id}" delays ${delaySamples} samples, ${delaySamples - profile.maxDelaySamples} more than the board's ${profile.maxDelaySamples}`,
-      });
+      problems.push(diagnostic('export-delay', 'error', { kind: 'field', path: `outputs[${i}].delayMs` }, { outputId: o.id, delaySamples, maxSamples: profile.maxDelaySamples }));
     }
     let outGain = gain;
     let scales: number[] = sections.map(() => 1);

@@ -7,7 +7,7 @@
  * Older versions are migrated (see `migrate.ts`); a version this build does not know is refused.
  */
 import { diagnostic, DiagnosticError } from '../diagnostics';
-import { maxShelfSlope, safeShelfSlope, shelfSlopeLimitText, SHELF_SLOPE_Q_MAX } from '../design/cookbook';
+import { maxShelfSlope, safeShelfSlope, shelfSlopeLimitText, SHELF_SLOPE_Q_MAX } from './shelf';
 import { FIELDS_SINCE, migrate, VERSION_ADDED } from './migrate';
 import { parseJsonText } from './json';
 import {

@@ -11,6 +11,7 @@
  *
  * Every reader returns a value or a reason; none throws, and none returns NaN or Infinity.
  */
+import { formatFrequency } from '../format';
 import { LIMITS } from '../plan/types';
 
 export type Parsed<T = number> = { ok: true; value: T } | { ok: false; reason: string };
@@ -163,10 +164,8 @@ function safe(x: number, f: (x: number) => string): string {
   return Number.isFinite(x) ? f(x) : '\u2013';
 }
 
-/** "63 Hz", "2.2 kHz", "12.5 kHz" (4 significant digits, trailing zeros dropped). */
-export function formatFrequency(hz: number): string {
-  return safe(hz, (f) => (Math.abs(f) >= 1000 ? `${+(f / 1000).toPrecision(4)} kHz` : `${+f.toPrecision(4)} Hz`));
-}
+/** "63 Hz", "2.2 kHz", "12.5 kHz": src/format.ts (the command line's messages use it too). */
+export { formatFrequency };
 
 /** Compact axis label: "20", "200", "2k", "20k". */
 export function formatFrequencyShort(hz: number): string {

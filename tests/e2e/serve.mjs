@@ -7,7 +7,9 @@ import { chromium } from 'playwright-core';
 export const root = fileURLToPath(new URL('../..', import.meta.url));
 const configFile = fileURLToPath(new URL('../../vite.web.config.ts', import.meta.url));
 
+/** Builds the web app with the test hook in (renderer/src/lib/test-hook.ts): a release build has none. */
 export async function buildWeb() {
+  process.env.VITE_TEST_HOOK = '1';
   await build({ configFile, logLevel: 'warn' });
 }
 

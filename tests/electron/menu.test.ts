@@ -1,7 +1,7 @@
 /** The application menu template (electron/menu.ts): every command reachable, shortcuts unique. */
 import { describe, expect, it } from 'vitest';
 import type { MenuItemConstructorOptions } from 'electron';
-import { MENU_COMMANDS, type MenuCommand } from '../../src/ipc';
+import { accelerator, COMMAND_TABLE, commandForKey, MENU_COMMANDS, shortcutText, type KeyChord, type MenuCommand } from '../../src/ipc';
 import { buildMenuTemplate, type MenuActions } from '../../electron/menu';
 
 function flatten(items: MenuItemConstructorOptions[]): MenuItemConstructorOptions[] {
@@ -68,5 +68,53 @@ describe('menu details', () => {
     expect(recent[0]).toMatchObject({ label: 'No recent plans', enabled: false });
     expect(recent.at(-1)).toMatchObject({ label: 'Clear Recent', enabled: false });
     expect(items.map((i) => i.role)).toContain('toggleDevTools');
+  });
+});
+
+describe('one command table for the menu, the key map and the tooltips', () => {
+  /** The key event an Electron accelerator stands for (CmdOrCtrl as Ctrl, or Cmd on macOS). */
+  function chordOf(acc: string, mac: boolean): KeyChord {
+    const parts = acc.split('+');
+    const key = parts[parts.length - 1];
+    const mod = parts.includes('CmdOrCtrl');
+    return { key: key.toLowerCase(), ctrlKey: mod && !mac, metaKey: mod && mac, shiftKey: parts.includes('Shift'), altKey: parts.includes('Alt') };
+  }
+
+  for (const mac of [true, false]) {
+    const items = flatten(buildMenuTemplate(recorder(), { platform: mac ? 'darwin' : 'linux', recent: [], developer: false }));
+    it(`every menu accelerator runs the same command in the renderer (${mac ? 'macOS' : 'Windows, Linux'})`, () => {
+      let checked = 0;
+      for (const spec of COMMAND_TABLE) {
+        const item = items.find((i) => i.label === spec.label)!;
+        expect(item, spec.id).toBeDefined();
+        expect(item.accelerator).toBe(accelerator(spec.id, mac));
+        if (item.accelerator) {
+          expect(commandForKey(chordOf(item.accelerator as string, mac)), spec.id).toBe(spec.id);
+          checked++;
+        }
+      }
+      expect(checked).toBe(COMMAND_TABLE.filter((c) => c.shortcuts.length > 0).length);
+    });
+  }
+
+  it('views switch with Alt+1..4 in the menu, the key map and the tooltips; Ctrl+digit is left to the browser', () => {
+    expect(accelerator('view:response', false)).toBe('Alt+1');
+    expect(accelerator('view:export', true)).toBe('Alt+4');
+    expect(shortcutText('view:zplane', false)).toBe('Alt+2');
+    expect(shortcutText('view:zplane', true)).toBe('⌥2');
+    const press = (over: Partial<KeyChord>): KeyChord => ({ key: '3', ctrlKey: false, metaKey: false, shiftKey: false, altKey: false, ...over });
+    expect(commandForKey(press({ altKey: true }))).toBe('view:time');
+    // Alt+3 types "#" or "£" on some layouts: the physical key decides.
+    expect(commandForKey(press({ altKey: true, key: '£', code: 'Digit3' }))).toBe('view:time');
+    expect(commandForKey(press({ ctrlKey: true }))).toBeNull();
+  });
+
+  it('redo takes both chords everywhere; the menu shows the platform habit', () => {
+    const chord = (key: string, shiftKey: boolean): KeyChord => ({ key, ctrlKey: true, metaKey: false, shiftKey, altKey: false });
+    expect(commandForKey(chord('y', false))).toBe('redo');
+    expect(commandForKey(chord('z', true))).toBe('redo');
+    expect(commandForKey(chord('z', false))).toBe('undo');
+    expect(accelerator('redo', true)).toBe('CmdOrCtrl+Shift+Z');
+    expect(accelerator('redo', false)).toBe('CmdOrCtrl+Y');
   });
 });

@@ -10,6 +10,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { diagnosticMessage } from '../../src/diagnostics';
 import { describe, expect, it } from 'vitest';
 import { designPlan } from '../../src/design/chain';
 import { EXPORT_FORMATS, formatExport, cIdentifier } from '../../src/export/format';
@@ -54,7 +55,7 @@ const PROFILES: BoardProfile[] = [
 
 function listOf(plan: Plan, profile: BoardProfile): ExportList {
   const r = buildExportList(plan, profile);
-  if (!r.ok) throw new Error(r.problems.map((p) => p.message).join('; '));
+  if (!r.ok) throw new Error(r.problems.map(diagnosticMessage).join('; '));
   return r.list;
 }
 
@@ -150,7 +151,7 @@ describe('import of an edited JSON export', () => {
   const float = BUILT_IN_PROFILES[0].profile;
   const json = () => {
     const r = buildExportList(demo('two-way-monitor.bqplan'), float);
-    if (!r.ok) throw new Error(r.problems[0].message);
+    if (!r.ok) throw new Error(diagnosticMessage(r.problems[0]));
     return formatExport(r.list, 'json');
   };
   it('refuses a bare NaN at the field path of the coefficient that holds it', () => {

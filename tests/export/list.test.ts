@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { diagnosticMessage } from '../../src/diagnostics';
+import { diagnostic, diagnosticMessage, targetPath } from '../../src/diagnostics';
 import { describe, expect, it } from 'vitest';
 import { designPlan } from '../../src/design/chain';
 import { buildExportList } from '../../src/export/list';
@@ -31,17 +31,12 @@ describe('section budget', () => {
     const r = buildExportList(plan, p);
     expect(r.ok).toBe(false);
     if (r.ok) return;
-    expect(r.problems).toEqual([
-      {
-        code: 'budget',
-        where: 'woofer',
-        message: 'output "woofer" needs 12 sections, 2 more than the board\'s 10: remove or merge 2 band(s) or crossover section(s)',
-      },
-    ]);
+    expect(r.problems).toEqual([diagnostic('export-budget', 'error', { kind: 'output', outputId: 'woofer' }, { outputId: 'woofer', sections: 12, budget: 10 })]);
+    expect(diagnosticMessage(r.problems[0])).toBe('output "woofer" needs 12 sections, 2 more than the board\'s 10: remove or merge 2 band(s) or crossover section(s)');
     p.sectionBudget = 3;
     const both = buildExportList(plan, p);
     expect(both.ok).toBe(false);
-    if (!both.ok) expect(both.problems.map((x) => [x.where, x.message.match(/(\d+) more/)![1]])).toEqual([['woofer', '9'], ['tweeter', '1']]);
+    if (!both.ok) expect(both.problems.map((x) => [targetPath(x.target), diagnosticMessage(x).match(/(\d+) more/)![1]])).toEqual([['woofer', '9'], ['tweeter', '1']]);
   });
 
   it('exports every section when the output fits exactly (nothing dropped)', () => {
@@ -63,7 +58,7 @@ describe('section budget', () => {
     p.gain = 'first-section';
     p.sectionBudget = 2;
     const r = buildExportList(plan, p);
-    if (!r.ok) throw new Error(r.problems[0].message);
+    if (!r.ok) throw new Error(diagnosticMessage(r.problems[0]));
     expect(r.list.outputs[0].sections.length).toBe(2);
     const t = r.list.outputs[1];
     expect(t.sections).toHaveLength(1);
@@ -96,7 +91,7 @@ describe('sample rate of the board', () => {
     const p = float();
     p.sampleRate = 44100;
     const r = buildExportList(plan, p);
-    if (!r.ok) throw new Error(r.problems[0].message);
+    if (!r.ok) throw new Error(diagnosticMessage(r.problems[0]));
     expect(r.list.redesigned).toBe(true);
     expect(r.list.sampleRate).toBe(44100);
     const at441 = designPlan({ ...plan, sampleRate: 44100 });
@@ -112,9 +107,9 @@ describe('sample rate of the board', () => {
     const r = buildExportList(plan, p);
     expect(r.ok).toBe(false);
     if (!r.ok) {
-      expect(r.problems[0].code).toBe('sample-rate');
-      expect(r.problems[0].where).toBe('outputs[1].bands[0].frequency');
-      expect(r.problems[0].message).toMatch(/board runs at 44100 Hz.*outputs\[1\]\.bands\[0\]\.frequency: must be below Nyquist \(22050 Hz/);
+      expect(r.problems[0].code).toBe('export-rate');
+      expect(targetPath(r.problems[0].target)).toBe('outputs[1].bands[0].frequency');
+      expect(diagnosticMessage(r.problems[0])).toMatch(/board runs at 44100 Hz.*outputs\[1\]\.bands\[0\]\.frequency: must be below Nyquist \(22050 Hz/);
     }
   });
 
@@ -165,7 +160,7 @@ describe('delay', () => {
     p.maxDelaySamples = 40;
     const refused = buildExportList(plan, p);
     expect(refused.ok).toBe(false);
-    if (!refused.ok) expect(refused.problems[0]).toMatchObject({ code: 'delay', where: 'outputs[1].delayMs' });
+    if (!refused.ok) expect(refused.problems[0]).toMatchObject({ code: 'export-delay', target: { kind: 'field', path: 'outputs[1].delayMs' } });
   });
 });
 

@@ -33,7 +33,7 @@ function demo(name: string): Plan {
 }
 function list(plan: Plan, profile: BoardProfile): ExportList {
   const r = buildExportList(plan, profile);
-  if (!r.ok) throw new Error(r.problems.map((p) => p.message).join('; '));
+  if (!r.ok) throw new Error(r.problems.map(diagnosticMessage).join('; '));
   return r.list;
 }
 

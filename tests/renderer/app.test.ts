@@ -191,6 +191,20 @@ describe('keyboard', () => {
     expect(doc.plan).toBe(p1);
   });
 
+  it('Alt+1..4 switch views, as the menu and the tooltips say (command table in src/ipc.ts); Ctrl+digit does not', () => {
+    key('2', { altKey: true });
+    expect(view.view).toBe('zplane');
+    key('4', { altKey: true });
+    expect(view.view).toBe('export');
+    key('3', { ctrlKey: true });
+    expect(view.view).toBe('export');
+    key('1', { altKey: true });
+    expect(view.view).toBe('response');
+    const titles = [...target.querySelectorAll('nav.views button')].map((b) => b.getAttribute('title'));
+    expect(titles).toEqual(['Response (Alt+1)', 'Z-plane (Alt+2)', 'Time (Alt+3)', 'Export (Alt+4)']);
+    expect(target.querySelector('[data-testid="save"]')?.getAttribute('title')).toBe('Save (Ctrl+S)');
+  });
+
   it('Delete removes the selected band; number keys select bands', () => {
     key('1');
     expect(view.bandIn(doc.plan)).toBe('b1');

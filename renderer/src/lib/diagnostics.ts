@@ -7,7 +7,7 @@
 import type { Diagnostic, DiagnosticCode, DiagnosticTarget, RateMisfit } from '../../../src/diagnostics';
 import type { Plan } from '../../../src/plan/types';
 import { formatFrequency as fmtHz } from '../../../src/ui/units';
-import { dbText, peakPlaceText } from '../../../src/analysis/headroom-text';
+import { dbText, peakPlaceText } from '../../../src/format';
 
 function outputName(plan: Plan, id: string): string {
   return plan.outputs.find((o) => o.id === id)?.name ?? id;
@@ -88,6 +88,14 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
   'export-unstable': (plan, d) => `unstable after quantization: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${sectionSource(plan, s.from)})`).join(', ')}`,
   'export-saturated': (plan, d) => `saturated coefficients: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
   'export-gain-saturated': (plan, d) => `output gain saturated: ${d.values.outputIds.map((id) => outputName(plan, id)).join(', ')}`,
+  'export-budget': (plan, d) => {
+    const extra = d.values.sections - d.values.budget;
+    return `${outputName(plan, d.values.outputId)} needs ${d.values.sections} sections, ${extra} more than the board's ${d.values.budget}: remove or merge ${extra} band(s) or crossover section(s)`;
+  },
+  'export-delay': (plan, d) =>
+    `${outputName(plan, d.values.outputId)} is delayed ${d.values.delaySamples} samples, ${d.values.delaySamples - d.values.maxSamples} more than the board's ${d.values.maxSamples}`,
+  'export-rate': (plan, d) =>
+    `the board runs at ${fmtHz(d.values.boardHz)}, the plan at ${fmtHz(d.values.planHz)}; redesigning at the board's rate fails: ${diagnosticText(plan, d.values.refusal)}`,
   'rate-misfit': (plan, d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';

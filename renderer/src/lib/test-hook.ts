@@ -2,6 +2,12 @@
  * A read-only window into the running app for the end-to-end tests and the UI benchmark:
  * the current plan, what the plots hold, where the band handles are on the page, and how long
  * drag frames took (input event to the frame after the plots were updated and painted).
+ *
+ * Not in a release build: `TEST_HOOK` is true in development and unit tests (Vite's DEV) and in
+ * builds made for the browser tests and the UI benchmark (`VITE_TEST_HOOK=1`, set by
+ * tests/e2e/serve.mjs). Elsewhere it is the constant false, so the hook, `window.__biquadrant`
+ * and the code that feeds it are dropped from the bundle (tests/renderer/test-hook-build.test.ts
+ * checks a built bundle).
  */
 import type { Plan } from '../../../src/plan/types';
 import type { CacheStats } from './response-cache';
@@ -58,6 +64,8 @@ declare global {
   }
 }
 
+export const TEST_HOOK: boolean = import.meta.env.DEV || import.meta.env.VITE_TEST_HOOK === '1';
+
 export const testHook: TestHook = {
   plan: () => {
     throw new Error('app not started');
@@ -75,11 +83,12 @@ export const testHook: TestHook = {
 };
 
 export function installTestHook(): void {
-  if (typeof window !== 'undefined') window.__biquadrant = testHook;
+  if (TEST_HOOK && typeof window !== 'undefined') window.__biquadrant = testHook;
 }
 
 /** Records the time from an input event to the frame after it was drawn (after paint). */
 export function recordFrame(inputTime: number): void {
+  if (!TEST_HOOK) return;
   requestAnimationFrame(() => {
     testHook.rafTimes.push(performance.now() - inputTime);
     const ch = new MessageChannel();
