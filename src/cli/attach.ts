@@ -14,7 +14,7 @@ import { readPlanText, readPlanValue } from '../plan/read';
 import { LIMITS, PLAN_VERSION, type Measurement, type MeasurementKind, type Plan } from '../plan/types';
 import { planToJson, writePlanText } from '../plan/write';
 import { optNumber, optString, parseArgs, UsageError } from './args';
-import { InputError, type CliIo, type CliResult } from './run';
+import { InputError, type CliIo, type CliResult } from './io';
 
 /** Where a new measurement goes. */
 export type AttachTarget = { output: string; offsetMm?: number } | { system: true };

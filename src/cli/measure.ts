@@ -12,7 +12,7 @@ import { parseMeasurementText } from '../measure/text';
 import type { MeasuredResponse } from '../measure/types';
 import type { Gate } from '../measure/gate';
 import { optChoice, optString, parseArgs, UsageError, type ParsedArgs } from './args';
-import { InputError, type CliIo, type CliResult } from './run';
+import { InputError, type CliIo, type CliResult } from './io';
 
 function channelOption(args: ParsedArgs): number | undefined {
   const v = optString(args, 'channel');

@@ -26,9 +26,13 @@ export const COMMAND_USAGE: Record<string, string> = {
       the sections of every output (or one) in the file convention
       H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)`,
   response: `  response PLAN [--freqs F1,F2,...] [--points N --from F --to F] [--format json|csv] [--quantize Qm.n]
+           [--acoustic [--smooth 1/N|var]]
       magnitude (dB), phase (degrees) and group delay (ms) of each unmuted output and of their sum
       (default: 512 log-spaced points from 20 Hz to 20 kHz, clipped below Nyquist);
-      --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers`,
+      --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers;
+      --acoustic: also the predicted acoustic response (driver measurement x chain x offset) of
+      each unmuted output with a driver measurement, and their predicted sum; null outside a
+      measurement's range; --smooth: the driver measurements smoothed first`,
   check: `  check PLAN [--format text|json]
       validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass)`,
   export: `  export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID] [--arrange as-designed|suggested]
@@ -40,6 +44,15 @@ export const COMMAND_USAGE: Record<string, string> = {
       the built-in board profiles`,
   import: `  import FILE --profile NAME|FILE [--format auto|text|csv|json|c] [--name NAME] [--sample-rate HZ]
       a coefficient list (any export format) as a plan of raw bands, written to stdout`,
+  measure: `  measure FILE [--format json|csv] [--channel N] [--gate START_MS,LENGTH_MS] [--smooth 1/N|var] [--min-phase]
+      a measurement (text columns of Hz, dB, optional degrees; or a WAV impulse response) as
+      imported: JSON {name, frequencyHz, magnitudeDb, phaseDeg, phaseEstimated, delayMs, notes}
+      or CSV frequencyHz,magnitudeDb,phaseDeg; WAV: --channel from 1 (default 1), --gate ms
+      before the peak and length (default 2,500); --min-phase: phase estimated from magnitude`,
+  attach: `  attach PLAN FILE (--output ID | --system) [--offset-mm N] [--name NAME]
+      the plan with the measurement in FILE (text columns, or a WAV impulse response: first
+      channel, default gate) added as the output's driver measurement or as a system
+      measurement, written to stdout`,
 };
 
 const EXIT_CODES = 'exit codes: 0 success, 1 invalid plan or input file, 2 usage error';

@@ -10,7 +10,7 @@
  * Walks over parsed values use an explicit stack: a file nested 5,000 levels deep must give an
  * error, not a stack overflow.
  */
-import { PlanError } from './read';
+import { PlanError } from './error';
 
 export type JsonResult = { ok: true; value: unknown } | { ok: false; error: PlanError };
 

@@ -6,10 +6,10 @@
  * contract does not know is refused too, rather than dropped: a plan never loses data silently.
  * Older versions are migrated (see `migrate.ts`); a version this build does not know is refused.
  */
-import { diagnostic, DiagnosticError } from '../diagnostics';
 import { maxShelfSlope, safeShelfSlope, shelfSlopeLimitText, SHELF_SLOPE_Q_MAX } from './shelf';
 import { FIELDS_SINCE, migrate, VERSION_ADDED } from './migrate';
 import { parseJsonText } from './json';
+import { PlanError } from './error';
 import {
   ACOUSTIC_OFFSET_UNITS,
   BAND_TYPES,
@@ -36,17 +36,7 @@ import {
   type RawCoefficients,
 } from './types';
 
-/** A plan, profile or JSON file refused: the field path and why. */
-export class PlanError extends DiagnosticError<'plan-field'> {
-  constructor(
-    /** Field path, e.g. `outputs[1].bands[0].q`; empty for the whole document. */
-    readonly path: string,
-    readonly reason: string,
-  ) {
-    super(diagnostic('plan-field', 'error', path ? { kind: 'field', path } : { kind: 'plan' }, { reason }));
-    this.name = 'PlanError';
-  }
-}
+export { PlanError };
 
 export type ReadResult = { ok: true; plan: Plan } | { ok: false; error: PlanError };
 
