@@ -70,10 +70,10 @@ export function exportText(list: ExportList): string {
   const lines = conventionLines(list).map((l) => `# ${l}`);
   lines.push(`# One line per section: ${effectiveOrder(list.profile).join(' ')}`);
   for (const o of list.outputs) {
-    lines.push('', `output ${o.id}`);
+    lines.push('', `output ${o.exportName}`);
     if (o.gain.written) lines.push(`gain ${o.gain.written.text}${gainSaturated(o) ? '  # SATURATED gain' : ''}`);
     lines.push(`delay ${o.delay.text} ${list.profile.delayUnit}`);
-    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${s.from}${scaleNote(s.scale)}${flagNote(s)}`);
+    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${sourceNote(s)}${scaleNote(s.scale)}${flagNote(s)}`);
   }
   return lines.join('\n') + '\n';
 }
@@ -95,6 +95,11 @@ function flagNote(s: ExportSection): string {
   return f ? ` -- ${f}` : '';
 }
 
+/** A section's comment: its place, its source path and what it is in words ("3 main_l/b2 (peaking)"). */
+function sourceNote(s: ExportSection): string {
+  return `${s.index} ${s.from}${s.what ? ` (${s.what})` : ''}`;
+}
+
 function scaleNote(scale: number): string {
   return scale === 1 ? '' : ` (b scaled x${scale.toPrecision(6)})`;
 }
@@ -113,8 +118,8 @@ export function exportCsv(list: ExportList): string {
   for (const o of list.outputs) {
     const gainFlag = gainSaturated(o) ? ['SATURATED gain'] : [];
     const flags = (s: ExportSection) => csvCell([sectionFlags(s), ...gainFlag].filter(Boolean).join('; '));
-    for (const s of o.sections) rows.push([csvCell(o.id), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o), flags(s)].join(','));
-    if (o.sections.length === 0) rows.push([csvCell(o.id), '0', '', ...order.map(() => ''), ...tail(o), ''].join(','));
+    for (const s of o.sections) rows.push([csvCell(o.exportName), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o), flags(s)].join(','));
+    if (o.sections.length === 0) rows.push([csvCell(o.exportName), '0', '', ...order.map(() => ''), ...tail(o), ''].join(','));
   }
   return rows.join('\n') + '\n';
 }
@@ -135,7 +140,7 @@ export function exportJson(list: ExportList): string {
     convention: conventionLines(list).slice(4),
     order: effectiveOrder(list.profile),
     outputs: list.outputs.map((o) => ({
-      id: o.id,
+      id: o.exportName,
       gain: o.gain.written ? jsonNumber(o.gain.written, hex) : null,
       delay: list.profile.delayUnit === 'samples' ? o.delay.samples : o.delay.ms,
       gainSaturated: gainSaturated(o),
@@ -199,9 +204,9 @@ export function exportC(list: ExportList): string {
   if (type !== 'double') lines.push('#include <stdint.h>', '');
   lines.push(`#define BQ_SAMPLE_RATE ${list.sampleRate}`);
   for (const o of list.outputs) {
-    const upper = cIdentifier(o.id).toUpperCase();
-    const lower = cIdentifier(o.id).toLowerCase();
-    lines.push('', `/* output ${o.id} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
+    const upper = cIdentifier(o.exportName).toUpperCase();
+    const lower = cIdentifier(o.exportName).toLowerCase();
+    lines.push('', `/* output ${o.exportName} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
     lines.push(list.profile.delayUnit === 'samples' ? `#define BQ_${upper}_DELAY_SAMPLES ${o.delay.text}` : `#define BQ_${upper}_DELAY_MS ${o.delay.text}`);
     if (o.gain.written) lines.push(`static const ${type} bq_${lower}_gain = ${cLiteral(o.gain.written, list)};${gainSaturated(o) ? ' /* SATURATED */' : ''}`);
     if (o.sections.length === 0) {
@@ -211,7 +216,7 @@ export function exportC(list: ExportList): string {
     lines.push(`static const ${type} bq_${lower}_sos[${o.sections.length}][${order.length}] = {`);
     o.sections.forEach((s, i) => {
       const sep = i === o.sections.length - 1 ? '' : ',';
-      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${s.index} ${cComment(s.from)}${scaleNote(s.scale)}${flagNote(s)} */`);
+      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${cComment(sourceNote(s))}${scaleNote(s.scale)}${flagNote(s)} */`);
     });
     lines.push('};');
   }

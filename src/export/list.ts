@@ -22,9 +22,11 @@
 import { poleRadius } from '../analysis/poles';
 import { designPlan, outputGain, type SourcedSection } from '../design/chain';
 import { scaleNumerator, type Section } from '../design/section';
+import { exportNames } from '../plan/export-name';
 import { readPlanValue } from '../plan/read';
 import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
+import { BAND_TYPE_WORDS, EDGE_WORDS } from '../plan/words';
 import { fromFixed, toFixed, toHex, type Saturation } from './fixed';
 import { effectiveOrder } from './profiles';
 import { suggestOrderAndScaling } from './overflow';
@@ -44,7 +46,10 @@ export const SECTION_KEYS: readonly SectionKey[] = ['b0', 'b1', 'b2', 'a1', 'a2'
 export interface ExportSection {
   /** 1-based position in the output's list. */
   index: number;
+  /** Where it comes from: `input/<band id>` or `<export name>/<band id | highPass | lowPass | gain>`. */
   from: string;
+  /** What it is, spelled out (plan/words.ts): "peaking", "high-pass edge", "output gain". */
+  what: string;
   /** The factor the suggested scaling put on b0 b1 b2 (1 when not rearranged). */
   scale: number;
   /** The exact design (file convention), gain folded in when the profile says so. */
@@ -65,7 +70,10 @@ export interface ExportSection {
 }
 
 export interface ExportOutput {
+  /** The output's id in the plan. */
   id: string;
+  /** What the export calls it (plan/export-name.ts): the list headers, CSV column, JSON id, C names. */
+  exportName: string;
   name: string;
   mute: boolean;
   gain: {
@@ -147,11 +155,13 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
     if (raws.length > 0) notes.push(`raw bands keep their coefficients, so their response moves with the rate: ${raws.join(', ')}`);
   }
   const designed = designPlan(p);
+  const names = exportNames(p.outputs);
   const problems: ExportProblem[] = [];
   const outputs: ExportOutput[] = [];
   p.outputs.forEach((o, i) => {
     if (outputId !== undefined && o.id !== outputId) return;
     const d = designed[i];
+    const name = names[i];
     let sections: SourcedSection[] = d.sections;
     const gain = outputGain(o);
     if (profile.gain === 'first-section') {
@@ -162,7 +172,7 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
       problems.push({
         code: 'budget',
         where: o.id,
-        message: `output "${o.id}" needs ${sections.length} sections, ${extra} more than the board's ${profile.sectionBudget}: remove or merge ${extra} band(s) or crossover section(s)`,
+        message: `output "${name}" needs ${sections.length} sections, ${extra} more than the board's ${profile.sectionBudget}: remove or merge ${extra} band(s) or crossover section(s)`,
       });
     }
     const delaySamples = Math.round((o.delayMs * fs) / 1000);
@@ -170,7 +180,7 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
       problems.push({
         code: 'delay',
         where: `outputs[${i}].delayMs`,
-        message: `output "${o.id}" delays ${delaySamples} samples, ${delaySamples - profile.maxDelaySamples} more than the board's ${profile.maxDelaySamples}`,
+        message: `output "${name}" delays ${delaySamples} samples, ${delaySamples - profile.maxDelaySamples} more than the board's ${profile.maxDelaySamples}`,
       });
     }
     let outGain = gain;
@@ -181,27 +191,47 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
       sections = sug.order.map((j, k) => ({ ...sug.sections[k], from: sections[j].from }));
       if (sug.levelChangeDb < 0) {
         if (profile.gain === 'separate') outGain = gain * Math.pow(10, -sug.levelChangeDb / 20);
-        else notes.push(`output "${o.id}": the suggested scaling leaves the output ${(-sug.levelChangeDb).toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`);
+        else notes.push(`output "${name}": the suggested scaling leaves the output ${(-sug.levelChangeDb).toFixed(2)} dB below the design (the gain is folded, so it cannot take it back)`);
       }
     }
+    const what = sections.map((s) => sourceWords(p, o.id, s.from));
+    sections = sections.map((s) => ({ ...s, from: exportFrom(s.from, o.id, name) }));
     const writtenGain = profile.gain === 'separate' ? writeNumber(outGain, profile) : null;
     outputs.push({
       id: o.id,
+      exportName: name,
       name: o.name,
       mute: o.mute,
       gain: { ideal: outGain, written: writtenGain, quantized: writtenGain ? readBack(writtenGain, profile) : 1 },
       delay: { ms: o.delayMs, samples: delaySamples, text: profile.delayUnit === 'samples' ? String(delaySamples) : numText(o.delayMs) },
-      sections: sections.map((s, k) => ({ ...exportSection(s, k + 1, profile), scale: scales[k] })),
+      sections: sections.map((s, k) => ({ ...exportSection(s, k + 1, profile), scale: scales[k], what: what[k] })),
     });
   });
   if (problems.length > 0) return { ok: false, problems };
-  const unstable = outputs.flatMap((o) => o.sections.filter((s) => !s.stable).map((s) => `${o.id} section ${s.index} (${s.from})`));
+  const unstable = outputs.flatMap((o) => o.sections.filter((s) => !s.stable).map((s) => `${o.exportName} section ${s.index} (${s.from})`));
   if (unstable.length > 0) notes.push(`UNSTABLE after quantization: ${unstable.join(', ')}`);
-  const saturated = outputs.flatMap((o) => o.sections.filter((s) => s.saturated.length > 0).map((s) => `${o.id} section ${s.index} (${s.saturated.join(', ')})`));
+  const saturated = outputs.flatMap((o) => o.sections.filter((s) => s.saturated.length > 0).map((s) => `${o.exportName} section ${s.index} (${s.saturated.join(', ')})`));
   if (saturated.length > 0) notes.push(`saturated coefficients: ${saturated.join('; ')}`);
-  const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none').map((o) => o.id);
+  const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none').map((o) => o.exportName);
   if (gainSat.length > 0) notes.push(`output gain saturated: ${gainSat.join(', ')}`);
   return { ok: true, list: { planName: plan.name, profile, sampleRate: fs, planSampleRate: plan.sampleRate, redesigned, notes, outputs } };
+}
+
+/** A section's source path with the output's plan id replaced by its export name. */
+function exportFrom(from: string, id: string, name: string): string {
+  return from.startsWith(`${id}/`) ? `${name}/${from.slice(id.length + 1)}` : from;
+}
+
+/** What a section's source is, in words: the band type, the edge, or the folded gain. */
+function sourceWords(plan: Plan, outputId: string, from: string): string {
+  const slash = from.indexOf('/');
+  const chain = from.slice(0, slash);
+  const part = from.slice(slash + 1);
+  if (part === 'gain') return 'output gain';
+  if (part === 'highPass' || part === 'lowPass') return EDGE_WORDS[part];
+  const bands = chain === 'input' ? plan.input.bands : (plan.outputs.find((o) => o.id === outputId)?.bands ?? []);
+  const band = bands.find((b) => b.id === part);
+  return band ? BAND_TYPE_WORDS[band.type] : '';
 }
 
 /** Shortest round-trip decimal; -0 written as 0. */
@@ -259,6 +289,7 @@ export function exportSection(s: SourcedSection, index: number, profile: BoardPr
   return {
     index,
     from: s.from,
+    what: '',
     scale: 1,
     ideal,
     written,

@@ -4,6 +4,9 @@
  *
  * 1 -> 2: version 2 adds the optional board profile (`profile`). A version 1 plan has none, so
  * every field is kept as it is and no profile is added (the export falls back to the default).
+ *
+ * 2 -> 3: version 3 adds an output's optional export name (`exportName`). Without it the export
+ * name is a slug of the output's name, so the step only adds defaults: every field is kept.
  */
 import { PLAN_VERSION } from './types';
 
@@ -12,6 +15,7 @@ type Step = (plan: Record<string, unknown>) => Record<string, unknown>;
 /** steps[v] turns a version v plan into version v + 1. */
 const steps: Record<number, Step> = {
   1: (plan) => ({ ...plan }),
+  2: (plan) => ({ ...plan }),
 };
 
 export function migrate(plan: Record<string, unknown>, fromVersion: number): Record<string, unknown> {

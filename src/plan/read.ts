@@ -7,6 +7,7 @@
  * Older versions are migrated (see `migrate.ts`); a version this build does not know is refused.
  */
 import { maxShelfSlope } from '../design/cookbook';
+import { exportNameProblem } from './export-name';
 import { migrate } from './migrate';
 import {
   BAND_TYPES,
@@ -143,6 +144,13 @@ export function readPlan(value: unknown): Plan {
   if (version < 2 && root.profile !== undefined) {
     throw new PlanError('profile', 'is not a field of plan version 1 (board profiles came with version 2)');
   }
+  if (version < 3 && Array.isArray(root.outputs)) {
+    root.outputs.forEach((out, i) => {
+      if (out !== null && typeof out === 'object' && 'exportName' in out) {
+        throw new PlanError(`outputs[${i}].exportName`, `is not a field of plan version ${version} (export names came with version 3)`);
+      }
+    });
+  }
   const current = object(migrate(root, version), '');
   return readCurrent(current);
 }
@@ -171,10 +179,17 @@ function readCurrent(o: Record<string, unknown>): Plan {
     throw new PlanError('outputs', `must hold ${LIMITS.outputsMin} to ${LIMITS.outputsMax} outputs (has ${outputs.length})`);
   }
   const ids = new Set<string>();
+  const exportNamesSet = new Set<string>();
   outputs.forEach((v, i) => {
     const out = readOutput(v, `outputs[${i}]`, sampleRate);
     if (ids.has(out.id)) throw new PlanError(`outputs[${i}].id`, `"${out.id}" is used by another output`);
     ids.add(out.id);
+    if (out.exportName !== undefined) {
+      // Case is ignored: the C header upper-cases export names for its macros.
+      const key = out.exportName.toLowerCase();
+      if (exportNamesSet.has(key)) throw new PlanError(`outputs[${i}].exportName`, `"${out.exportName}" is used by another output (case is ignored)`);
+      exportNamesSet.add(key);
+    }
     plan.outputs.push(out);
   });
   if (o.profile !== undefined && o.profile !== null) plan.profile = readBoardProfile(o.profile, 'profile');
@@ -285,15 +300,21 @@ function wholeNumber(v: unknown, path: string, min: number, max: number): number
 
 function readOutput(v: unknown, path: string, fs: number): Output {
   const o = object(v, path);
-  allowKeys(o, path, ['id', 'name', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands']);
+  allowKeys(o, path, ['id', 'name', 'exportName', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands']);
   const id = str(o.id, `${path}.id`, 32);
   if (!LIMITS.idPattern.test(id)) throw new PlanError(`${path}.id`, 'must be 1 to 32 of a-z, 0-9, "_" or "-"');
+  let exportName: string | undefined;
+  if (o.exportName !== undefined) {
+    exportName = str(o.exportName, `${path}.exportName`, LIMITS.exportNameMaxLength);
+    const problem = exportNameProblem(exportName);
+    if (problem) throw new PlanError(`${path}.exportName`, problem);
+  }
   const gainDb = o.gainDb === undefined ? 0 : num(o.gainDb, `${path}.gainDb`);
   if (Math.abs(gainDb) > LIMITS.outputGainDbAbsMax) throw new PlanError(`${path}.gainDb`, `must be within +/-${LIMITS.outputGainDbAbsMax} dB`);
   const delayMs = o.delayMs === undefined ? 0 : num(o.delayMs, `${path}.delayMs`);
   if (delayMs < 0) throw new PlanError(`${path}.delayMs`, 'must be >= 0');
   if (delayMs > LIMITS.delayMsMax) throw new PlanError(`${path}.delayMs`, `must be at most ${LIMITS.delayMsMax} ms`);
-  return {
+  const out: Output = {
     id,
     name: o.name === undefined ? id : str(o.name, `${path}.name`, LIMITS.nameMaxLength),
     gainDb,
@@ -304,6 +325,8 @@ function readOutput(v: unknown, path: string, fs: number): Output {
     lowPass: readEdge(o.lowPass, `${path}.lowPass`, fs),
     bands: readBands(o.bands, `${path}.bands`, fs),
   };
+  if (exportName !== undefined) out.exportName = exportName;
+  return out;
 }
 
 function readEdge(v: unknown, path: string, fs: number): Crossover | null {

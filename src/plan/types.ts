@@ -1,13 +1,14 @@
 /**
- * The plan model: the in-memory shape is the file shape of `*.bqplan` version 2
+ * The plan model: the in-memory shape is the file shape of `*.bqplan` version 3
  * (docs/plan-format.md), with every default filled in by the reader. Version 2 adds the optional
- * board profile; version 1 files are migrated on reading (migrate.ts).
+ * board profile, version 3 an output's optional export name; older files are migrated on reading
+ * (migrate.ts).
  * Units are in the names' documentation: Hz, dB (20 log10), ms.
  */
 
 export const PLAN_FORMAT = 'biquadrant.plan';
 /** The newest plan version this build writes. */
-export const PLAN_VERSION = 2;
+export const PLAN_VERSION = 3;
 
 export type BandType =
   | 'peaking'
@@ -89,6 +90,11 @@ export type EdgeKind = 'highPass' | 'lowPass';
 export interface Output {
   id: string;
   name: string;
+  /**
+   * Version 3: the identifier exports use for this output (a C identifier, unique in the plan
+   * ignoring case). Absent: a slug of `name` (export-name.ts), so it follows renames.
+   */
+  exportName?: string;
   gainDb: number;
   /** >= 0, a pure delay (not rounded to samples in the response). */
   delayMs: number;
@@ -172,6 +178,7 @@ export const LIMITS = {
   qMax: 1000,
   delayMsMax: 10000,
   idPattern: /^[a-z0-9_-]{1,32}$/,
+  exportNameMaxLength: 32,
   bandIdMaxLength: 32,
   nameMaxLength: 200,
   /** Board profiles (version 2). */

@@ -25,17 +25,17 @@ function band(b: Band): Record<string, unknown> {
 }
 
 function output(x: Output): Record<string, unknown> {
-  return {
-    id: x.id,
-    name: x.name,
-    gainDb: x.gainDb,
-    delayMs: x.delayMs,
-    invert: x.invert,
-    mute: x.mute,
-    highPass: edge(x.highPass),
-    lowPass: edge(x.lowPass),
-    bands: x.bands.map(band),
-  };
+  const o: Record<string, unknown> = { id: x.id, name: x.name };
+  // Version 3, written only when set: without it the export name follows the output's name.
+  if (x.exportName !== undefined) o.exportName = x.exportName;
+  o.gainDb = x.gainDb;
+  o.delayMs = x.delayMs;
+  o.invert = x.invert;
+  o.mute = x.mute;
+  o.highPass = edge(x.highPass);
+  o.lowPass = edge(x.lowPass);
+  o.bands = x.bands.map(band);
+  return o;
 }
 
 /** The plan as a plain object in the file's key order. */

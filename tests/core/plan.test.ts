@@ -145,21 +145,21 @@ describe('unknown format, version and fields', () => {
     }
   });
   it('versions this build does not know', () => {
-    for (const v of [0, 3, 99, -1]) {
+    for (const v of [0, 4, 99, -1]) {
       const e = errorOf((p) => (p.version = v));
       expect(e.path).toBe('version');
       expect(e.message).toMatch(/not supported/);
     }
     for (const v of [1.5, '2', null, NaN]) expect(errorOf((p) => (p.version = v)).path).toBe('version');
   });
-  it('a version 1 plan with a profile is refused; without one it is migrated to version 2', () => {
+  it('a version 1 plan with a profile is refused; without one it is migrated to the current version', () => {
     expect(errorOf((p) => (p.version = 1)).path).toBe('profile');
     const p = good();
     p.version = 1;
     delete p.profile;
     const r = readPlanValue(p);
     expect(r.ok).toBe(true);
-    if (r.ok) expect(r.plan.version).toBe(2);
+    if (r.ok) expect(r.plan.version).toBe(PLAN_VERSION);
   });
   it('unknown fields are refused at every level, never dropped', () => {
     const where: [(p: Record<string, any>) => Record<string, any>, string][] = [

@@ -66,7 +66,7 @@ describe('version 1 plans still open', () => {
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.plan.version).toBe(PLAN_VERSION);
-    expect(PLAN_VERSION).toBe(2);
+    expect(PLAN_VERSION).toBe(3);
     expect(r.plan.profile).toBeUndefined();
   });
 
@@ -74,13 +74,13 @@ describe('version 1 plans still open', () => {
     const doc = v1(name);
     const r = readPlanValue(doc);
     if (!r.ok) throw r.error;
-    expect(planToJson(r.plan)).toEqual({ ...doc, version: 2 });
+    expect(planToJson(r.plan)).toEqual({ ...doc, version: PLAN_VERSION });
   });
 
   it('keeps every optional field of a full version 1 document', () => {
     const r = readPlanValue(FULL_V1);
     if (!r.ok) throw r.error;
-    expect(planToJson(r.plan)).toEqual({ ...FULL_V1, version: 2 });
+    expect(planToJson(r.plan)).toEqual({ ...FULL_V1, version: PLAN_VERSION });
   });
 
   it('refuses a profile in a version 1 file (it is not a version 1 field)', () => {
@@ -89,10 +89,10 @@ describe('version 1 plans still open', () => {
     if (!r.ok) expect(r.error.path).toBe('profile');
   });
 
-  it('refuses version 3 with a clear message', () => {
-    const r = readPlanValue({ ...FULL_V1, version: 3 });
+  it('refuses a version above this build\'s with a clear message', () => {
+    const r = readPlanValue({ ...FULL_V1, version: PLAN_VERSION + 1 });
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.error.message).toMatch(/version: 3 is not supported.*1 to 2/);
+    if (!r.ok) expect(r.error.message).toMatch(new RegExp(`version: ${PLAN_VERSION + 1} is not supported.*1 to ${PLAN_VERSION}`));
   });
 });
 
