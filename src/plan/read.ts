@@ -9,6 +9,7 @@
 import { maxShelfSlope } from '../design/cookbook';
 import { exportNameProblem } from './export-name';
 import { migrate } from './migrate';
+import { jsonProblem, shownToken } from './shown-text';
 import {
   BAND_TYPES,
   BESSEL_NORMALIZATIONS,
@@ -59,7 +60,7 @@ export function parseJsonText(text: string): { ok: true; value: unknown } | { ok
   } catch (e) {
     const bare = bareNonFiniteNumber(text);
     if (bare) return { ok: false, error: new PlanError(bare.path, `must be a finite number, not ${bare.token} (not valid JSON either)`) };
-    return { ok: false, error: new PlanError('', `not valid JSON (${(e as Error).message})`) };
+    return { ok: false, error: new PlanError('', jsonProblem(text, e)) };
   }
 }
 
@@ -425,7 +426,7 @@ function readCoefficients(v: unknown, path: string): RawCoefficients {
 function describe(v: unknown): string {
   if (v === null) return 'null';
   if (Array.isArray(v)) return 'a list';
-  if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 40 ? v.slice(0, 40) + '...' : v)}`;
+  if (typeof v === 'string') return `the string ${shownToken(v, 40)}`;
   return typeof v === 'object' ? 'an object' : `${typeof v} ${String(v)}`;
 }
 

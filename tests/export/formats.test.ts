@@ -163,7 +163,7 @@ describe('import of an edited JSON export', () => {
   it('says when the text is not JSON at all', () => {
     const r = parseCoefficientList(json().slice(0, -3), float, 'json');
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.error.message).toMatch(/^not valid JSON \(/);
+    if (!r.ok) expect(r.error.message).toMatch(/^not valid JSON: the text ends before the JSON does/);
   });
 });
 
