@@ -127,6 +127,29 @@ export function planAtProfileRate(plan: Plan, profile: BoardProfile): { ok: true
   return { ok: true, plan: r.plan };
 }
 
+/** One output's use of the board's section budget. */
+export interface BudgetUse {
+  id: string;
+  exportName: string;
+  /** Sections the board runs for this output (input chain included; a folded gain on an output without sections adds its unity section). */
+  used: number;
+  allowed: number;
+}
+
+/** The sections an output sends to the board, from its designed count and the profile's gain rule. */
+export function sectionsNeeded(designedCount: number, profile: BoardProfile): number {
+  return profile.gain === 'first-section' && designedCount === 0 ? 1 : designedCount;
+}
+
+/**
+ * Every output's section count against the profile's budget, as the export counts it (a redesign
+ * at the board's rate keeps every band and edge, so the count is the plan's).
+ */
+export function budgetUse(plan: Plan, profile: BoardProfile): BudgetUse[] {
+  const names = exportNames(plan.outputs);
+  return designPlan(plan).map((d, i) => ({ id: d.id, exportName: names[i], used: sectionsNeeded(d.sections.length, profile), allowed: profile.sectionBudget }));
+}
+
 /** Builds the list for every output (or one). Never throws for a valid plan and profile. */
 export interface ExportOptions {
   /**
@@ -167,12 +190,13 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
     if (profile.gain === 'first-section') {
       sections = sections.length === 0 ? [{ b0: gain, b1: 0, b2: 0, a1: 0, a2: 0, from: `${o.id}/gain` }] : sections.map((s, k) => (k === 0 ? scaleNumerator(s, gain) : s));
     }
-    if (sections.length > profile.sectionBudget) {
-      const extra = sections.length - profile.sectionBudget;
+    const needed = sectionsNeeded(d.sections.length, profile);
+    if (needed > profile.sectionBudget) {
+      const extra = needed - profile.sectionBudget;
       problems.push({
         code: 'budget',
         where: o.id,
-        message: `output "${name}" needs ${sections.length} sections, ${extra} more than the board's ${profile.sectionBudget}: remove or merge ${extra} band(s) or crossover section(s)`,
+        message: `output "${name}" needs ${needed} sections, ${extra} more than the board's ${profile.sectionBudget}: remove or merge ${extra} band(s) or crossover section(s)`,
       });
     }
     const delaySamples = Math.round((o.delayMs * fs) / 1000);
