@@ -8,6 +8,7 @@ import { mkdirSync, readFileSync } from 'node:fs';
 import { register } from 'tsx/esm/api';
 import { buildWeb, launchBrowser, root, serveWeb } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
+import { practiceChecks } from './practice.mjs';
 
 register();
 const { designPlan } = await import('../../src/design/chain.ts');
@@ -422,6 +423,8 @@ async function main() {
       await page.waitForFunction(() => window.__biquadrant.plotted()?.magnitude.length > 0);
       comparePlotted(await plotted(), edited);
     });
+
+    await practiceChecks(browser, server.url, check);
 
     await check('no console errors or page errors', async () => {
       assert(errors.length === 0, errors.join('\n'));
