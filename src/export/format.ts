@@ -6,7 +6,7 @@
  */
 import type { ExportList, ExportOutput, ExportSection, WrittenNumber } from './list';
 import { profileToJson } from '../plan/write';
-import { describeProfile, effectiveOrder } from './profiles';
+import { describeProfile, effectiveOrder, FEEDBACK_SIGN_WORDS, writtenNames } from './profiles';
 import { qName } from './fixed';
 
 export type ExportFormat = 'text' | 'csv' | 'json' | 'c';
@@ -34,17 +34,14 @@ export function formatExport(list: ExportList, format: ExportFormat): string {
 /** The comment lines every format with comments starts with (without comment markers). */
 export function conventionLines(list: ExportList): string[] {
   const p = list.profile;
-  const order = effectiveOrder(p);
   const lines = [
     `Biquadrant export: ${list.planName}`,
     `Board profile: ${p.name}`,
     `Sample rate: ${list.sampleRate} Hz${list.redesigned ? ` (redesigned; the plan is at ${list.planSampleRate} Hz)` : ''}`,
     `Profile: ${describeProfile(p, list.planSampleRate)}`,
     'Section: H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order (input chain first)',
-    p.feedbackSign === 'negated'
-      ? 'Board equation: y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] + A1 y[n-1] + A2 y[n-2], with A1 = -a1, A2 = -a2 written'
-      : 'Board equation: y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] - a1 y[n-1] - a2 y[n-2]',
-    `Numbers per section: ${order.map((n) => (p.feedbackSign === 'negated' && (n === 'a1' || n === 'a2') ? `-${n}` : n)).join(' ')}${p.writeA0 ? ' (a0 = 1 before scaling)' : ''}`,
+    `Board equation: ${FEEDBACK_SIGN_WORDS[p.feedbackSign].equation}`,
+    `Numbers per section: ${writtenNames(p).join(' ')}${p.writeA0 ? ' (a0 = 1 before scaling)' : ''}`,
   ];
   if (p.coefficientScale !== 1) lines.push(`Every coefficient is multiplied by ${p.coefficientScale} before it is written (the board undoes it)`);
   if (p.number.kind === 'fixed') {
@@ -68,7 +65,7 @@ function sectionNumbers(s: { written: { number: WrittenNumber }[] }): string[] {
 
 export function exportText(list: ExportList): string {
   const lines = conventionLines(list).map((l) => `# ${l}`);
-  lines.push(`# One line per section: ${effectiveOrder(list.profile).join(' ')}`);
+  lines.push(`# One line per section: ${writtenNames(list.profile).join(' ')}`);
   for (const o of list.outputs) {
     lines.push('', `output ${o.exportName}`);
     if (o.gain.written) lines.push(`gain ${o.gain.written.text}${gainSaturated(o) ? '  # SATURATED gain' : ''}`);
@@ -196,7 +193,7 @@ function cType(list: ExportList): string {
 export function exportC(list: ExportList): string {
   const order = effectiveOrder(list.profile);
   const type = cType(list);
-  const lines = ['/*', ...conventionLines(list).map((l) => ` * ${cComment(l)}`), ` * Each row is {${order.join(', ')}}.`];
+  const lines = ['/*', ...conventionLines(list).map((l) => ` * ${cComment(l)}`), ` * Each row is {${writtenNames(list.profile).join(', ')}}.`];
   if (list.profile.number.kind === 'fixed' && list.profile.number.notation === 'hex') {
     lines.push(` * Hex words are stored in ${type}: the low ${list.profile.number.wordBits} bits are the two's complement.`);
   }
