@@ -27,7 +27,7 @@ import { readPlanValue } from '../plan/read';
 import type { BoardProfile, CoefficientName, Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
 import { BAND_TYPE_WORDS, EDGE_WORDS } from '../plan/words';
-import { fromFixed, toFixed, toHex, type Saturation } from './fixed';
+import { fixedRange, fromFixed, qName, roundHalfAwayFromZero, toFixed, toHex, type Saturation } from './fixed';
 import { effectiveOrder } from './profiles';
 import { suggestOrderAndScaling } from './overflow';
 
@@ -236,9 +236,27 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
   if (unstable.length > 0) notes.push(`UNSTABLE after quantization: ${unstable.join(', ')}`);
   const saturated = outputs.flatMap((o) => o.sections.filter((s) => s.saturated.length > 0).map((s) => `${o.exportName} section ${s.index} (${s.saturated.join(', ')})`));
   if (saturated.length > 0) notes.push(`saturated coefficients: ${saturated.join('; ')}`);
-  const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none').map((o) => o.exportName);
-  if (gainSat.length > 0) notes.push(`output gain saturated: ${gainSat.join(', ')}`);
+  const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none');
+  if (gainSat.length > 0) notes.push(`output gain saturated: ${gainSat.map((o) => o.exportName).join(', ')}`);
+  for (const o of gainSat) notes.push(gainScalingNote(o, profile));
   return { ok: true, list: { planName: plan.name, profile, sampleRate: fs, planSampleRate: plan.sampleRate, redesigned, notes, outputs } };
+}
+
+/**
+ * What a board must do with a gain its number format cannot hold (Q1.31 tops out just below 1, so
+ * even unity saturates): the smallest power of two 2^k that brings the gain into range, the value
+ * to write, and the shift the board applies after the cascade. The list itself keeps the profile's
+ * rule (the separate gain is never pre-scaled) and flags the saturation.
+ */
+export function gainScalingNote(o: ExportOutput, profile: BoardProfile): string {
+  const n = profile.number;
+  const g = o.gain.ideal;
+  if (n.kind !== 'fixed') return '';
+  const { min, max } = fixedRange(n);
+  let k = 0;
+  while (k < 64 && (roundHalfAwayFromZero((g / 2 ** k) * 2 ** n.fractionBits) > max || roundHalfAwayFromZero((g / 2 ** k) * 2 ** n.fractionBits) < min)) k++;
+  const written = writeNumber(g / 2 ** k, profile);
+  return `output "${o.exportName}": its gain ${numText(g)} does not fit ${qName(n)}; write ${numText(g / 2 ** k)} (${written.text}) and have the board multiply by ${2 ** k} (shift left by ${k} bit${k === 1 ? '' : 's'}) after the cascade, or lower the output gain below ${numText(fromFixed(max, n))}`;
 }
 
 /** A section's source path with the output's plan id replaced by its export name. */
