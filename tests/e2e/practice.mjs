@@ -303,6 +303,37 @@ export async function practiceChecks(browser, url, check) {
     }
   });
 
+  await check('plan sheet: one printed page with the plot, every output in a table, the profile and the caution', async () => {
+    const { page, context, plan } = await fresh(browser, url);
+    await page.evaluate(() => {
+      window.print = () => (window.__printed = (window.__printed ?? 0) + 1);
+    });
+    await page.getByTestId('more').click();
+    await page.getByTestId('plan-sheet-print').click();
+    await page.waitForFunction(() => window.__printed === 1);
+    await page.emulateMedia({ media: 'print' });
+    const sheet = page.getByTestId('plan-sheet');
+    assert(await sheet.isVisible(), 'the sheet is not shown in print');
+    assert(!(await page.locator('.app').isVisible()), 'the app is printed too');
+    const p = await plan();
+    const rows = page.getByTestId('plan-sheet-output');
+    assert((await rows.count()) === p.outputs.length, 'one table row per output');
+    const text = await sheet.innerText();
+    for (const o of p.outputs) assert(text.includes(o.name), `${o.name} missing`);
+    assert(/Linkwitz-Riley 4th order, 2\.2 kHz/.test(text), 'edges not in the table');
+    assert(/peaking, 63 Hz, -4\.5 dB, Q 4/.test(text), 'input chain bands not in the table');
+    assert(/Headroom/.test(text) && /Polarity/.test(text) && /Delay/.test(text), 'columns missing');
+    assert(/hearing/.test(text) && /regulations/.test(text), 'caution missing');
+    assert(/board profile: none chosen/.test(text), 'profile line missing');
+    const curves = await page.getByTestId('plan-sheet-plot').locator('path.curve').evaluateAll((ps) => ps.map((e) => e.getAttribute('d')?.length ?? 0));
+    assert(curves.length === p.outputs.length + 1 && curves.every((n) => n > 200), `plot curves ${curves}`);
+    await page.screenshot({ path: `${OUT}/p07-plan-sheet.png`, fullPage: true });
+    const pdf = await page.pdf({ format: 'A4', path: `${OUT}/plan-sheet.pdf` });
+    const pages = pdf.toString('latin1').match(/\/Type\s*\/Page(?!s)/g)?.length ?? 0;
+    assert(pages === 1, `the PDF has ${pages} pages`);
+    await context.close();
+  });
+
   await check('no console or page errors in these pages', async () => {
     assert(errors.length === 0, errors.join('\n'));
   });

@@ -234,3 +234,15 @@ export function undo(): void {
 export function redo(): void {
   if (!doc.redo()) view.notify('info', 'Nothing to redo.', 1500);
 }
+
+// ---- plan sheet -------------------------------------------------------------------------------
+
+/**
+ * Prints the plan sheet (the browser's or Electron's print dialog, where "Save as PDF" writes the
+ * PDF). The sheet is laid out first; the page's print stylesheet shows it alone.
+ */
+export async function printPlanSheet(): Promise<void> {
+  view.printing = true;
+  await tick();
+  window.print();
+}
