@@ -67,6 +67,8 @@ export interface DiagnosticValues {
   'export-unstable': { sections: { outputId: string; index: number; from: string }[] };
   'export-saturated': { sections: { outputId: string; index: number; names: string[] }[] };
   'export-gain-saturated': { outputIds: string[] };
+  /** A separate gain the number format cannot hold: write `scaledGain` and multiply by 2^shiftBits after the cascade. */
+  'export-gain-scaling': { exportName: string; gain: string; format: string; scaledGain: string; scaledText: string; shiftBits: number; maxGain: string };
 }
 
 export type DiagnosticCode = keyof DiagnosticValues;
@@ -134,6 +136,7 @@ const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
   'export-unstable': (d) => `UNSTABLE after quantization: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.from})`).join(', ')}`,
   'export-saturated': (d) => `saturated coefficients: ${d.values.sections.map((s) => `${s.outputId} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
   'export-gain-saturated': (d) => `output gain saturated: ${d.values.outputIds.join(', ')}`,
+  'export-gain-scaling': (d) => `output "${d.values.exportName}": ${gainScalingText(d.values)}`,
   'rate-misfit': (d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';
@@ -164,4 +167,10 @@ export abstract class DiagnosticError<C extends DiagnosticCode = DiagnosticCode>
   constructor(readonly diagnostic: Diagnostic<C>) {
     super(diagnosticMessage(diagnostic as Diagnostic));
   }
+}
+
+/** The advice for a separate gain the number format cannot hold, after the output's name. */
+export function gainScalingText(v: DiagnosticValues['export-gain-scaling']): string {
+  const k = v.shiftBits;
+  return `its gain ${v.gain} does not fit ${v.format}; write ${v.scaledGain} (${v.scaledText}) and have the board multiply by ${2 ** k} (shift left by ${k} bit${k === 1 ? '' : 's'}) after the cascade, or lower the output gain below ${v.maxGain}`;
 }

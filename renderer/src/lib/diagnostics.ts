@@ -4,7 +4,7 @@
  * The command line words the same diagnostics with ids and field paths; nothing here reads a
  * sentence back.
  */
-import type { Diagnostic, DiagnosticCode, DiagnosticTarget, RateMisfit } from '../../../src/diagnostics';
+import { gainScalingText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '../../../src/diagnostics';
 import type { Plan } from '../../../src/plan/types';
 import { formatFrequency as fmtHz } from '../../../src/ui/units';
 import { dbText, peakPlaceText } from '../../../src/analysis/headroom-text';
@@ -88,6 +88,7 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
   'export-unstable': (plan, d) => `unstable after quantization: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${sectionSource(plan, s.from)})`).join(', ')}`,
   'export-saturated': (plan, d) => `saturated coefficients: ${d.values.sections.map((s) => `${outputName(plan, s.outputId)} section ${s.index} (${s.names.join(', ')})`).join('; ')}`,
   'export-gain-saturated': (plan, d) => `output gain saturated: ${d.values.outputIds.map((id) => outputName(plan, id)).join(', ')}`,
+  'export-gain-scaling': (plan, d) => `${targetText(plan, d.target)}: ${gainScalingText(d.values)}`,
   'rate-misfit': (plan, d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';

@@ -37,6 +37,8 @@ export class ViewState {
   /** Curve ids the legend has hidden (view only, not saved). */
   #hiddenCurves = $state.raw<ReadonlySet<string>>(new Set());
   #notice = $state.raw<Notice | null>(null);
+  /** The plan sheet is laid out only while the page prints (it costs a response and an analysis). */
+  #printing = $state(false);
   #noticeTimer: ReturnType<typeof setTimeout> | null = null;
 
   get view(): ViewName {
@@ -68,6 +70,12 @@ export class ViewState {
   }
   get notice(): Notice | null {
     return this.#notice;
+  }
+  get printing(): boolean {
+    return this.#printing;
+  }
+  set printing(v: boolean) {
+    this.#printing = v;
   }
 
   /** The selected chain if it exists in `plan`, else the first output. */
