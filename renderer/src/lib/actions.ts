@@ -143,7 +143,8 @@ function settleFocus(bandId: string | null): void {
   if (typeof document === 'undefined') return;
   const active = document.activeElement;
   if (active && active !== document.body && active.isConnected) return;
-  const row = bandId ? document.querySelector<HTMLElement>(`[data-testid="band-row"][data-band="${CSS.escape(bandId)}"]`) : null;
+  // Compared by value rather than by a selector, so no id needs escaping (and no CSS.escape is needed).
+  const row = bandId ? ([...document.querySelectorAll<HTMLElement>('[data-testid="band-row"]')].find((r) => r.dataset.band === bandId) ?? null) : null;
   (row ?? document.querySelector<HTMLElement>('[data-testid="band-add"]'))?.focus();
 }
 
