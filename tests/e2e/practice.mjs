@@ -23,6 +23,8 @@ const errors = [];
 
 async function fresh(browser, url, width = 1280, height = 800) {
   const context = await browser.newContext({ viewport: { width, height }, acceptDownloads: true });
+  // Without the browser's save dialog, Save is a download the checks can read (as in run.mjs).
+  await context.addInitScript(() => Object.defineProperty(window, 'showSaveFilePicker', { value: undefined, configurable: true }));
   const page = await context.newPage();
   page.on('console', (m) => {
     if (m.type() === 'error' || m.type() === 'warning') errors.push(`console ${m.type()}: ${m.text()}`);
