@@ -69,9 +69,11 @@ export interface DiagnosticValues {
   'export-saturated': { sections: { outputId: string; index: number; names: string[] }[] };
   'export-gain-saturated': { outputIds: string[] };
   // refusals of an export list
-  'export-budget': { outputId: string; sections: number; budget: number };
-  'export-delay': { outputId: string; delaySamples: number; maxSamples: number };
+  'export-budget': { outputId: string; exportName: string; sections: number; budget: number };
+  'export-delay': { outputId: string; exportName: string; delaySamples: number; maxSamples: number };
   'export-rate': { boardHz: number; planHz: number; refusal: Diagnostic<'plan-field'> };
+  /** A separate gain the number format cannot hold: write `scaledGain` and multiply by 2^shiftBits after the cascade. */
+  'export-gain-scaling': { exportName: string; gain: string; format: string; scaledGain: string; scaledText: string; shiftBits: number; maxGain: string };
 }
 
 export type DiagnosticCode = keyof DiagnosticValues;
@@ -141,12 +143,13 @@ const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
   'export-gain-saturated': (d) => `output gain saturated: ${d.values.outputIds.join(', ')}`,
   'export-budget': (d) => {
     const extra = d.values.sections - d.values.budget;
-    return `output "${d.values.outputId}" needs ${d.values.sections} sections, ${extra} more than the board's ${d.values.budget}: remove or merge ${extra} band(s) or crossover section(s)`;
+    return `output "${d.values.exportName}" needs ${d.values.sections} sections, ${extra} more than the board's ${d.values.budget}: remove or merge ${extra} band(s) or crossover section(s)`;
   },
   'export-delay': (d) =>
-    `output "${d.values.outputId}" delays ${d.values.delaySamples} samples, ${d.values.delaySamples - d.values.maxSamples} more than the board's ${d.values.maxSamples}`,
+    `output "${d.values.exportName}" delays ${d.values.delaySamples} samples, ${d.values.delaySamples - d.values.maxSamples} more than the board's ${d.values.maxSamples}`,
   'export-rate': (d) =>
     `the board runs at ${d.values.boardHz} Hz, the plan at ${d.values.planHz} Hz; redesigning at ${d.values.boardHz} Hz fails: ${diagnosticMessage(d.values.refusal)}`,
+  'export-gain-scaling': (d) => `output "${d.values.exportName}": ${gainScalingText(d.values)}`,
   'rate-misfit': (d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';
@@ -177,4 +180,10 @@ export abstract class DiagnosticError<C extends DiagnosticCode = DiagnosticCode>
   constructor(readonly diagnostic: Diagnostic<C>) {
     super(diagnosticMessage(diagnostic as Diagnostic));
   }
+}
+
+/** The advice for a separate gain the number format cannot hold, after the output's name. */
+export function gainScalingText(v: DiagnosticValues['export-gain-scaling']): string {
+  const k = v.shiftBits;
+  return `its gain ${v.gain} does not fit ${v.format}; write ${v.scaledGain} (${v.scaledText}) and have the board multiply by ${2 ** k} (shift left by ${k} bit${k === 1 ? '' : 's'}) after the cascade, or lower the output gain below ${v.maxGain}`;
 }

@@ -51,3 +51,6 @@ export function headroomSeverity(peakDb: number): 'warning' | 'danger' | null {
   // NaN-safe: a peak that cannot be computed is as loud a danger as a large one.
   return !(peakDb <= HEADROOM_DANGER_DB) ? 'danger' : !(peakDb <= HEADROOM_WARN_DB) ? 'warning' : null;
 }
+
+/** The plan sheet's plots run to 20 kHz or this fraction of fs, like the export view's quantized plot. */
+export const SHEET_PLOT_TOP_FRACTION = QUANTIZED_PLOT_TOP_FRACTION;

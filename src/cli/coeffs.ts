@@ -5,6 +5,7 @@
  * shortest form that reads back to the same double, in every format.
  */
 import { designPlan, type DesignedOutput } from '../design/chain';
+import { exportNames } from '../plan/export-name';
 import type { Plan } from '../plan/types';
 import { cComment, cDoubleText, cIdentifier, csvCell, printable } from '../export/format';
 import { numText } from '../export/list';
@@ -13,6 +14,8 @@ export interface CoeffsListing {
   sampleRate: number;
   outputs: {
     id: string;
+    /** The output's export name (plan/export-name.ts): what the lists and C names call it. */
+    exportName: string;
     gain: number;
     delayMs: number;
     delaySamples: number;
@@ -21,13 +24,17 @@ export interface CoeffsListing {
 }
 
 export function coeffsListing(plan: Plan, outputId?: string): CoeffsListing {
-  const designed = designPlan(plan).filter((d) => outputId === undefined || d.id === outputId);
-  return { sampleRate: plan.sampleRate, outputs: designed.map(listOutput) };
+  const names = exportNames(plan.outputs);
+  const designed = designPlan(plan)
+    .map((d, i) => listOutput(d, names[i]))
+    .filter((d) => outputId === undefined || d.id === outputId);
+  return { sampleRate: plan.sampleRate, outputs: designed };
 }
 
-function listOutput(d: DesignedOutput): CoeffsListing['outputs'][number] {
+function listOutput(d: DesignedOutput, exportName: string): CoeffsListing['outputs'][number] {
   return {
     id: d.id,
+    exportName,
     gain: d.gain,
     delayMs: d.delayMs,
     // Rounded to the nearest sample (the response itself uses the exact delay).
@@ -44,9 +51,9 @@ export function coeffsCsvText(l: CoeffsListing): string {
   const rows = ['output,section,from,b0,b1,b2,a1,a2,gain,delayMs,delaySamples'];
   for (const o of l.outputs) {
     o.sections.forEach((s, i) => {
-      rows.push([csvCell(o.id), i + 1, csvCell(s.from), numText(s.b0), numText(s.b1), numText(s.b2), numText(s.a1), numText(s.a2), numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
+      rows.push([csvCell(o.exportName), i + 1, csvCell(s.from), numText(s.b0), numText(s.b1), numText(s.b2), numText(s.a1), numText(s.a2), numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
     });
-    if (o.sections.length === 0) rows.push([o.id, 0, '', '', '', '', '', '', numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
+    if (o.sections.length === 0) rows.push([csvCell(o.exportName), 0, '', '', '', '', '', '', numText(o.gain), numText(o.delayMs), o.delaySamples].join(','));
   }
   return rows.join('\n') + '\n';
 }
@@ -58,7 +65,7 @@ export function coeffsText(l: CoeffsListing, planName: string): string {
     '# H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order',
   ];
   for (const o of l.outputs) {
-    lines.push('', `output ${o.id}: gain ${numText(o.gain)} (linear, polarity included), delay ${numText(o.delayMs)} ms = ${o.delaySamples} samples, ${o.sections.length} sections`);
+    lines.push('', `output ${printable(o.exportName)}: gain ${numText(o.gain)} (linear, polarity included), delay ${numText(o.delayMs)} ms = ${o.delaySamples} samples, ${o.sections.length} sections`);
     o.sections.forEach((s, i) => {
       lines.push(`  ${String(i + 1).padStart(2)}  b0=${numText(s.b0)} b1=${numText(s.b1)} b2=${numText(s.b2)} a1=${numText(s.a1)} a2=${numText(s.a2)}  (${printable(s.from)})`);
     });
@@ -87,9 +94,9 @@ export function coeffsCText(l: CoeffsListing, planName: string): string {
     `#define BQ_SAMPLE_RATE ${l.sampleRate}`,
   ];
   for (const o of l.outputs) {
-    const name = cIdentifier(o.id).toUpperCase();
-    const lower = cIdentifier(o.id).toLowerCase();
-    lines.push('', `/* output ${o.id} */`, `#define BQ_${name}_SECTIONS ${o.sections.length}`, `#define BQ_${name}_DELAY_SAMPLES ${o.delaySamples}`);
+    const name = cIdentifier(o.exportName).toUpperCase();
+    const lower = cIdentifier(o.exportName).toLowerCase();
+    lines.push('', `/* output ${o.exportName} */`, `#define BQ_${name}_SECTIONS ${o.sections.length}`, `#define BQ_${name}_DELAY_SAMPLES ${o.delaySamples}`);
     lines.push(`static const double bq_${lower}_gain = ${cDouble(o.gain)};`);
     if (o.sections.length === 0) {
       lines.push(`/* no sections: bq_${lower}_sos is omitted (C has no empty arrays) */`);

@@ -7,7 +7,7 @@
 import type { ExportList, ExportOutput, ExportSection, WrittenNumber } from './list';
 import { profileToJson } from '../plan/write';
 import { diagnosticMessage } from '../diagnostics';
-import { describeProfile, effectiveOrder } from './profiles';
+import { describeProfile, effectiveOrder, FEEDBACK_SIGN_WORDS, writtenNames } from './profiles';
 import { qName } from './fixed';
 
 export type ExportFormat = 'text' | 'csv' | 'json' | 'c';
@@ -35,17 +35,14 @@ export function formatExport(list: ExportList, format: ExportFormat): string {
 /** The comment lines every format with comments starts with (without comment markers). */
 export function conventionLines(list: ExportList): string[] {
   const p = list.profile;
-  const order = effectiveOrder(p);
   const lines = [
     `Biquadrant export: ${printable(list.planName)}`,
     `Board profile: ${printable(p.name)}`,
     `Sample rate: ${list.sampleRate} Hz${list.redesigned ? ` (redesigned; the plan is at ${list.planSampleRate} Hz)` : ''}`,
     `Profile: ${describeProfile(p, list.planSampleRate)}`,
     'Section: H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2), sections in signal order (input chain first)',
-    p.feedbackSign === 'negated'
-      ? 'Board equation: y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] + A1 y[n-1] + A2 y[n-2], with A1 = -a1, A2 = -a2 written'
-      : 'Board equation: y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] - a1 y[n-1] - a2 y[n-2]',
-    `Numbers per section: ${order.map((n) => (p.feedbackSign === 'negated' && (n === 'a1' || n === 'a2') ? `-${n}` : n)).join(' ')}${p.writeA0 ? ' (a0 = 1 before scaling)' : ''}`,
+    `Board equation: ${FEEDBACK_SIGN_WORDS[p.feedbackSign].equation}`,
+    `Numbers per section: ${writtenNames(p).join(' ')}${p.writeA0 ? ' (a0 = 1 before scaling)' : ''}`,
   ];
   if (p.coefficientScale !== 1) lines.push(`Every coefficient is multiplied by ${p.coefficientScale} before it is written (the board undoes it)`);
   if (p.number.kind === 'fixed') {
@@ -69,12 +66,12 @@ function sectionNumbers(s: { written: { number: WrittenNumber }[] }): string[] {
 
 export function exportText(list: ExportList): string {
   const lines = conventionLines(list).map((l) => `# ${l}`);
-  lines.push(`# One line per section: ${effectiveOrder(list.profile).join(' ')}`);
+  lines.push(`# One line per section: ${writtenNames(list.profile).join(' ')}`);
   for (const o of list.outputs) {
-    lines.push('', `output ${printable(o.id)}`);
+    lines.push('', `output ${printable(o.exportName)}`);
     if (o.gain.written) lines.push(`gain ${o.gain.written.text}${gainSaturated(o) ? '  # SATURATED gain' : ''}`);
     lines.push(`delay ${o.delay.text} ${list.profile.delayUnit}`);
-    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${s.index} ${printable(s.from)}${scaleNote(s.scale)}${flagNote(s)}`);
+    for (const s of o.sections) lines.push(`${sectionNumbers(s).join(' ')}  # ${printable(sourceNote(s))}${scaleNote(s.scale)}${flagNote(s)}`);
   }
   return lines.join('\n') + '\n';
 }
@@ -94,6 +91,11 @@ function gainSaturated(o: ExportOutput): boolean {
 function flagNote(s: ExportSection): string {
   const f = sectionFlags(s);
   return f ? ` -- ${f}` : '';
+}
+
+/** A section's comment: its place, its source path and what it is in words ("3 main_l/b2 (peaking)"). */
+function sourceNote(s: ExportSection): string {
+  return `${s.index} ${s.from}${s.what ? ` (${s.what})` : ''}`;
 }
 
 function scaleNote(scale: number): string {
@@ -116,8 +118,8 @@ export function exportCsv(list: ExportList): string {
   for (const o of list.outputs) {
     const gainFlag = gainSaturated(o) ? ['SATURATED gain'] : [];
     const flags = (s: ExportSection) => csvCell([sectionFlags(s), ...gainFlag].filter(Boolean).join('; '));
-    for (const s of o.sections) rows.push([csvCell(o.id), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o), flags(s)].join(','));
-    if (o.sections.length === 0) rows.push([csvCell(o.id), '0', '', ...order.map(() => ''), ...tail(o), ''].join(','));
+    for (const s of o.sections) rows.push([csvCell(o.exportName), String(s.index), csvCell(s.from), ...sectionNumbers(s), ...tail(o), flags(s)].join(','));
+    if (o.sections.length === 0) rows.push([csvCell(o.exportName), '0', '', ...order.map(() => ''), ...tail(o), ''].join(','));
   }
   return rows.join('\n') + '\n';
 }
@@ -138,7 +140,7 @@ export function exportJson(list: ExportList): string {
     convention: conventionLines(list).slice(4),
     order: effectiveOrder(list.profile),
     outputs: list.outputs.map((o) => ({
-      id: o.id,
+      id: o.exportName,
       gain: o.gain.written ? jsonNumber(o.gain.written, hex) : null,
       delay: list.profile.delayUnit === 'samples' ? o.delay.samples : o.delay.ms,
       gainSaturated: gainSaturated(o),
@@ -203,7 +205,7 @@ function cType(list: ExportList): string {
 export function exportC(list: ExportList): string {
   const order = effectiveOrder(list.profile);
   const type = cType(list);
-  const lines = ['/*', ...conventionLines(list).map((l) => ` * ${cComment(l)}`), ` * Each row is {${order.join(', ')}}.`];
+  const lines = ['/*', ...conventionLines(list).map((l) => ` * ${cComment(l)}`), ` * Each row is {${writtenNames(list.profile).join(', ')}}.`];
   if (list.profile.number.kind === 'fixed' && list.profile.number.notation === 'hex') {
     lines.push(` * Hex words are stored in ${type}: the low ${list.profile.number.wordBits} bits are the two's complement.`);
   }
@@ -211,9 +213,9 @@ export function exportC(list: ExportList): string {
   if (type !== 'double') lines.push('#include <stdint.h>', '');
   lines.push(`#define BQ_SAMPLE_RATE ${list.sampleRate}`);
   for (const o of list.outputs) {
-    const upper = cIdentifier(o.id).toUpperCase();
-    const lower = cIdentifier(o.id).toLowerCase();
-    lines.push('', `/* output ${cComment(o.id)} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
+    const upper = cIdentifier(o.exportName).toUpperCase();
+    const lower = cIdentifier(o.exportName).toLowerCase();
+    lines.push('', `/* output ${cComment(o.exportName)} */`, `#define BQ_${upper}_SECTIONS ${o.sections.length}`);
     lines.push(list.profile.delayUnit === 'samples' ? `#define BQ_${upper}_DELAY_SAMPLES ${o.delay.text}` : `#define BQ_${upper}_DELAY_MS ${o.delay.text}`);
     if (o.gain.written) lines.push(`static const ${type} bq_${lower}_gain = ${cLiteral(o.gain.written, list)};${gainSaturated(o) ? ' /* SATURATED */' : ''}`);
     if (o.sections.length === 0) {
@@ -223,7 +225,7 @@ export function exportC(list: ExportList): string {
     lines.push(`static const ${type} bq_${lower}_sos[${o.sections.length}][${order.length}] = {`);
     o.sections.forEach((s, i) => {
       const sep = i === o.sections.length - 1 ? '' : ',';
-      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${s.index} ${cComment(s.from)}${scaleNote(s.scale)}${flagNote(s)} */`);
+      lines.push(`  { ${s.written.map((w) => cLiteral(w.number, list)).join(', ')} }${sep} /* ${cComment(sourceNote(s))}${scaleNote(s.scale)}${flagNote(s)} */`);
     });
     lines.push('};');
   }

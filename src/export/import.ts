@@ -15,6 +15,7 @@ import type { Band, BoardProfile, CoefficientName, Plan, RawCoefficients } from 
 import { LIMITS, PLAN_FORMAT, PLAN_VERSION } from '../plan/types';
 import { diagnostic, DiagnosticError, targetPath, type DiagnosticTarget } from '../diagnostics';
 import { parseJsonText, readBoardProfile, readPlanValue, PlanError } from '../plan/read';
+import { shownToken } from '../plan/shown-text';
 import { planToJson } from '../plan/write';
 import { fixedRange, fromFixed, fromHex, qName } from './fixed';
 import { writeFactor } from './list';
@@ -110,19 +111,19 @@ export function readToken(token: string, profile: BoardProfile, where: Diagnosti
   const t = token.trim();
   const n = profile.number;
   if (n.kind === 'decimal') {
-    if (!DECIMAL.test(t)) throw new ImportError(where, `"${t}" is not a decimal number`);
+    if (!DECIMAL.test(t)) throw new ImportError(where, `${shownToken(t)} is not a decimal number`);
     return Number(t);
   }
   let integer: number | null;
   // In a hex profile every unsigned word is hex, with or without 0x.
   if (/^[+-]?0x/i.test(t) || (n.notation === 'hex' && /^[0-9a-f]+$/i.test(t))) {
-    if (t.startsWith('-')) throw new ImportError(where, `"${t}": hex words are two's complement, not signed`);
+    if (t.startsWith('-')) throw new ImportError(where, `${shownToken(t)}: hex words are two's complement, not signed`);
     integer = fromHex(t, n.wordBits);
-    if (integer === null) throw new ImportError(where, `"${t}" is not a ${n.wordBits}-bit hex word`);
+    if (integer === null) throw new ImportError(where, `${shownToken(t)} is not a ${n.wordBits}-bit hex word`);
   } else if (/^[+-]?\d+$/.test(t)) {
     integer = Number(t);
   } else {
-    throw new ImportError(where, `"${t}" is not an integer of ${qName(n)}`);
+    throw new ImportError(where, `${shownToken(t)} is not an integer of ${qName(n)}`);
   }
   const { min, max } = fixedRange(n);
   if (integer < min || integer > max) throw new ImportError(where, `${t} is outside ${qName(n)} (${min} .. ${max})`);
@@ -216,7 +217,7 @@ function parseText(text: string, profile: BoardProfile): ImportedList {
 function readDelay(token: string, where: DiagnosticTarget): number {
   const t = token.trim();
   const value = Number(t);
-  if (!DECIMAL.test(t) || !Number.isFinite(value) || value < 0) throw new ImportError(where, `delay "${t}" is not a number >= 0`);
+  if (!DECIMAL.test(t) || !Number.isFinite(value) || value < 0) throw new ImportError(where, `delay ${shownToken(t)} is not a number >= 0`);
   return value;
 }
 

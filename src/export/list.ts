@@ -23,10 +23,12 @@ import { poleRadius } from '../analysis/poles';
 import { diagnostic, type Diagnostic } from '../diagnostics';
 import { designPlan, outputGain, type SourcedSection } from '../design/chain';
 import { scaleNumerator, type Section } from '../design/section';
+import { exportNames } from '../plan/export-name';
 import { readPlanValue } from '../plan/read';
 import { LIMITS, type BoardProfile, type CoefficientName, type Plan } from '../plan/types';
 import { planToJson } from '../plan/write';
-import { fromFixed, toFixed, toHex, type Saturation } from './fixed';
+import { BAND_TYPE_WORDS, EDGE_WORDS } from '../plan/words';
+import { fixedRange, fromFixed, qName, roundHalfAwayFromZero, toFixed, toHex, type Saturation } from './fixed';
 import { effectiveOrder } from './profiles';
 import { suggestOrderAndScaling } from './overflow';
 
@@ -45,7 +47,10 @@ export const SECTION_KEYS: readonly SectionKey[] = ['b0', 'b1', 'b2', 'a1', 'a2'
 export interface ExportSection {
   /** 1-based position in the output's list. */
   index: number;
+  /** Where it comes from: `input/<band id>` or `<export name>/<band id | highPass | lowPass | gain>`. */
   from: string;
+  /** What it is, spelled out (plan/words.ts): "peaking", "high-pass edge", "output gain". */
+  what: string;
   /** The factor the suggested scaling put on b0 b1 b2 (1 when not rearranged). */
   scale: number;
   /** The exact design (file convention), gain folded in when the profile says so. */
@@ -66,7 +71,10 @@ export interface ExportSection {
 }
 
 export interface ExportOutput {
+  /** The output's id in the plan. */
   id: string;
+  /** What the export calls it (plan/export-name.ts): the list headers, CSV column, JSON id, C names. */
+  exportName: string;
   name: string;
   mute: boolean;
   gain: {
@@ -93,7 +101,7 @@ export interface ExportList {
   outputs: ExportOutput[];
 }
 
-export type ExportNote = Diagnostic<'export-redesigned' | 'export-raw-rate' | 'export-scaling-level' | 'export-scaling-short' | 'export-unstable' | 'export-saturated' | 'export-gain-saturated'>;
+export type ExportNote = Diagnostic<'export-redesigned' | 'export-raw-rate' | 'export-scaling-level' | 'export-scaling-short' | 'export-unstable' | 'export-saturated' | 'export-gain-saturated' | 'export-gain-scaling'>;
 
 /** Why a list cannot be exported: too many sections, too long a delay, or the plan fails at the board's rate. */
 export type ExportProblem = Diagnostic<'export-budget' | 'export-delay' | 'export-rate'>;
@@ -109,6 +117,29 @@ export function planAtProfileRate(plan: Plan, profile: BoardProfile): { ok: true
     return { ok: false, problem: diagnostic('export-rate', 'error', r.error.diagnostic.target, { boardHz: fs, planHz: plan.sampleRate, refusal: r.error.diagnostic }) };
   }
   return { ok: true, plan: r.plan };
+}
+
+/** One output's use of the board's section budget. */
+export interface BudgetUse {
+  id: string;
+  exportName: string;
+  /** Sections the board runs for this output (input chain included; a folded gain on an output without sections adds its unity section). */
+  used: number;
+  allowed: number;
+}
+
+/** The sections an output sends to the board, from its designed count and the profile's gain rule. */
+export function sectionsNeeded(designedCount: number, profile: BoardProfile): number {
+  return profile.gain === 'first-section' && designedCount === 0 ? 1 : designedCount;
+}
+
+/**
+ * Every output's section count against the profile's budget, as the export counts it (a redesign
+ * at the board's rate keeps every band and edge, so the count is the plan's).
+ */
+export function budgetUse(plan: Plan, profile: BoardProfile): BudgetUse[] {
+  const names = exportNames(plan.outputs);
+  return designPlan(plan).map((d, i) => ({ id: d.id, exportName: names[i], used: sectionsNeeded(d.sections.length, profile), allowed: profile.sectionBudget }));
 }
 
 /** Builds the list for every output (or one). Never throws for a valid plan and profile. */
@@ -140,22 +171,25 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
     if (raws.length > 0) notes.push(diagnostic('export-raw-rate', 'warning', PLAN, { bands: raws }));
   }
   const designed = designPlan(p);
+  const names = exportNames(p.outputs);
   const problems: ExportProblem[] = [];
   const outputs: ExportOutput[] = [];
   p.outputs.forEach((o, i) => {
     if (outputId !== undefined && o.id !== outputId) return;
     const d = designed[i];
+    const name = names[i];
     let sections: SourcedSection[] = d.sections;
     const gain = outputGain(o);
     if (profile.gain === 'first-section') {
       sections = sections.length === 0 ? [{ b0: gain, b1: 0, b2: 0, a1: 0, a2: 0, from: `${o.id}/gain` }] : sections.map((s, k) => (k === 0 ? scaleNumerator(s, gain) : s));
     }
-    if (sections.length > profile.sectionBudget) {
-      problems.push(diagnostic('export-budget', 'error', { kind: 'output', outputId: o.id }, { outputId: o.id, sections: sections.length, budget: profile.sectionBudget }));
+    const needed = sectionsNeeded(d.sections.length, profile);
+    if (needed > profile.sectionBudget) {
+      problems.push(diagnostic('export-budget', 'error', { kind: 'output', outputId: o.id }, { outputId: o.id, exportName: name, sections: needed, budget: profile.sectionBudget }));
     }
     const delaySamples = Math.round((o.delayMs * fs) / 1000);
     if (profile.maxDelaySamples !== null && delaySamples > profile.maxDelaySamples) {
-      problems.push(diagnostic('export-delay', 'error', { kind: 'field', path: `outputs[${i}].delayMs` }, { outputId: o.id, delaySamples, maxSamples: profile.maxDelaySamples }));
+      problems.push(diagnostic('export-delay', 'error', { kind: 'field', path: `outputs[${i}].delayMs` }, { outputId: o.id, exportName: name, delaySamples, maxSamples: profile.maxDelaySamples }));
     }
     let outGain = gain;
     let scales: number[] = sections.map(() => 1);
@@ -177,24 +211,80 @@ export function buildExportList(plan: Plan, profile: BoardProfile, outputId?: st
         } else notes.push(diagnostic('export-scaling-level', 'info', { kind: 'output', outputId: o.id }, { levelDb: -sug.levelChangeDb }));
       }
     }
+    const what = sections.map((s) => sourceWords(p, o.id, s.from));
+    sections = sections.map((s) => ({ ...s, from: exportFrom(s.from, o.id, name) }));
     const writtenGain = profile.gain === 'separate' ? writeNumber(outGain, profile) : null;
     outputs.push({
       id: o.id,
+      exportName: name,
       name: o.name,
       mute: o.mute,
       gain: { ideal: outGain, written: writtenGain, quantized: writtenGain ? readBack(writtenGain, profile) : 1 },
       delay: { ms: o.delayMs, samples: delaySamples, text: profile.delayUnit === 'samples' ? String(delaySamples) : numText(o.delayMs) },
-      sections: sections.map((s, k) => ({ ...exportSection(s, k + 1, profile), scale: scales[k] })),
+      sections: sections.map((s, k) => ({ ...exportSection(s, k + 1, profile), scale: scales[k], what: what[k] })),
     });
   });
   if (problems.length > 0) return { ok: false, problems };
-  const unstable = outputs.flatMap((o) => o.sections.filter((s) => !s.stable).map((s) => ({ outputId: o.id, index: s.index, from: s.from })));
+  // Diagnostics name outputs and sources by plan id (each surface words them); the export's own
+  // names are in the list itself.
+  const unstable = outputs.flatMap((o) => o.sections.filter((s) => !s.stable).map((s) => ({ outputId: o.id, index: s.index, from: planFrom(s.from, o) })));
   if (unstable.length > 0) notes.push(diagnostic('export-unstable', 'danger', PLAN, { sections: unstable }));
   const saturated = outputs.flatMap((o) => o.sections.filter((s) => s.saturated.length > 0).map((s) => ({ outputId: o.id, index: s.index, names: [...s.saturated] })));
   if (saturated.length > 0) notes.push(diagnostic('export-saturated', 'warning', PLAN, { sections: saturated }));
-  const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none').map((o) => o.id);
-  if (gainSat.length > 0) notes.push(diagnostic('export-gain-saturated', 'warning', PLAN, { outputIds: gainSat }));
+  const gainSat = outputs.filter((o) => o.gain.written && o.gain.written.saturation !== 'none');
+  if (gainSat.length > 0) notes.push(diagnostic('export-gain-saturated', 'warning', PLAN, { outputIds: gainSat.map((o) => o.id) }));
+  for (const o of gainSat) {
+    const note = gainScalingNote(o, profile);
+    if (note) notes.push(note);
+  }
   return { ok: true, list: { planName: plan.name, profile, sampleRate: fs, planSampleRate: plan.sampleRate, redesigned, notes, outputs } };
+}
+
+/**
+ * What a board must do with a gain its number format cannot hold (Q1.31 tops out just below 1, so
+ * even unity saturates): the smallest power of two 2^k that brings the gain into range, the value
+ * to write, and the shift the board applies after the cascade. The list itself keeps the profile's
+ * rule (the separate gain is never pre-scaled) and flags the saturation.
+ */
+export function gainScalingNote(o: ExportOutput, profile: BoardProfile): Diagnostic<'export-gain-scaling'> | null {
+  const n = profile.number;
+  const g = o.gain.ideal;
+  if (n.kind !== 'fixed') return null;
+  const { min, max } = fixedRange(n);
+  let k = 0;
+  while (k < 64 && (roundHalfAwayFromZero((g / 2 ** k) * 2 ** n.fractionBits) > max || roundHalfAwayFromZero((g / 2 ** k) * 2 ** n.fractionBits) < min)) k++;
+  const written = writeNumber(g / 2 ** k, profile);
+  return diagnostic('export-gain-scaling', 'warning', { kind: 'output', outputId: o.id }, {
+    exportName: o.exportName,
+    gain: numText(g),
+    format: qName(n),
+    scaledGain: numText(g / 2 ** k),
+    scaledText: written.text,
+    shiftBits: k,
+    maxGain: numText(fromFixed(max, n)),
+  });
+}
+
+/** A section's source path with the output's plan id replaced by its export name. */
+function exportFrom(from: string, id: string, name: string): string {
+  return from.startsWith(`${id}/`) ? `${name}/${from.slice(id.length + 1)}` : from;
+}
+
+/** A source path in export names back in plan ids, for the diagnostics. */
+function planFrom(from: string, o: ExportOutput): string {
+  return from.startsWith(`${o.exportName}/`) ? `${o.id}/${from.slice(o.exportName.length + 1)}` : from;
+}
+
+/** What a section's source is, in words: the band type, the edge, or the folded gain. */
+function sourceWords(plan: Plan, outputId: string, from: string): string {
+  const slash = from.indexOf('/');
+  const chain = from.slice(0, slash);
+  const part = from.slice(slash + 1);
+  if (part === 'gain') return 'output gain';
+  if (part === 'highPass' || part === 'lowPass') return EDGE_WORDS[part];
+  const bands = chain === 'input' ? plan.input.bands : (plan.outputs.find((o) => o.id === outputId)?.bands ?? []);
+  const band = bands.find((b) => b.id === part);
+  return band ? BAND_TYPE_WORDS[band.type] : '';
 }
 
 /** Shortest round-trip decimal; -0 written as 0. */
@@ -252,6 +342,7 @@ export function exportSection(s: SourcedSection, index: number, profile: BoardPr
   return {
     index,
     from: s.from,
+    what: '',
     scale: 1,
     ideal,
     written,

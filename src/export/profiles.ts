@@ -127,6 +127,28 @@ export function effectiveOrder(p: BoardProfile): CoefficientName[] {
   return out;
 }
 
+/**
+ * The one wording of the feedback sign, for every export comment, the C header and the app: what
+ * each choice writes and the difference equation the board then runs.
+ */
+export const FEEDBACK_SIGN_WORDS: Record<BoardProfile['feedbackSign'], { choice: string; written: string; equation: string }> = {
+  'as-computed': {
+    choice: 'a1, a2 as computed',
+    written: 'feedback as computed (a1, a2 written)',
+    equation: 'y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] - a1 y[n-1] - a2 y[n-2]',
+  },
+  negated: {
+    choice: 'negated: -a1, -a2 written',
+    written: 'feedback negated (-a1, -a2 written)',
+    equation: 'y[n] = b0 x[n] + b1 x[n-1] + b2 x[n-2] + A1 y[n-1] + A2 y[n-2], with A1 = -a1, A2 = -a2 written',
+  },
+};
+
+/** A section's numbers as the board gets them, each named with its sign: "b0 b1 b2 -a1 -a2" when negated. */
+export function writtenNames(p: BoardProfile): string[] {
+  return effectiveOrder(p).map((n) => (p.feedbackSign === 'negated' && (n === 'a1' || n === 'a2') ? `-${n}` : n));
+}
+
 /** One line that says what a profile does, for comment blocks and the app. */
 export function describeProfile(p: BoardProfile, planSampleRate: number): string {
   const rate = p.sampleRate ?? planSampleRate;
@@ -138,8 +160,8 @@ export function describeProfile(p: BoardProfile, planSampleRate: number): string
       : `${qName(p.number)} in ${p.number.wordBits}-bit words, ${p.number.notation === 'hex' ? "two's-complement hex" : 'signed decimal integers'}`;
   const parts = [
     `${rate} Hz`,
-    `order ${effectiveOrder(p).join(' ')}`,
-    p.feedbackSign === 'negated' ? 'feedback negated (-a1, -a2 written)' : 'feedback as computed (a1, a2 written)',
+    `order ${writtenNames(p).join(' ')}`,
+    FEEDBACK_SIGN_WORDS[p.feedbackSign].written,
     num,
   ];
   if (p.coefficientScale !== 1) parts.push(`coefficients x ${p.coefficientScale}`);

@@ -11,6 +11,7 @@
  * error, not a stack overflow.
  */
 import { PlanError } from './error';
+import { junkTextProblem } from './shown-text';
 
 export type JsonResult = { ok: true; value: unknown } | { ok: false; error: PlanError };
 
@@ -147,6 +148,9 @@ export function parseJsonText(raw: string): JsonResult {
   } catch (e) {
     const bare = bareNonFiniteNumber(text);
     if (bare) return { ok: false, error: new PlanError(shortPath(bare.path), `must be a finite number, not ${bare.token} (not valid JSON either)`) };
+    // An empty file, an image or archive, or prose: say what it is, never quote its bytes.
+    const junk = junkTextProblem(text);
+    if (junk) return { ok: false, error: new PlanError('', junk) };
     const offset = errorOffset(text, (e as Error).message);
     if (offset < 0) return { ok: false, error: new PlanError('', 'not valid JSON') };
     const { line, column } = lineColumn(text, offset);

@@ -4,8 +4,8 @@
  *
  * 1 -> 2: version 2 adds the optional board profile (`profile`). A version 1 plan has none, so
  * every field is kept as it is and no profile is added (the export falls back to the default).
- * 2 -> 3: version 3 adds optional fields only (the measurements, each output's driver measurement
- * and acoustic offset, the system measurements, the air temperature). A version 2 plan has none,
+ * 2 -> 3: version 3 adds optional fields only (the measurements, each output's driver measurement,
+ * acoustic offset and export name, the system measurements, the air temperature). A version 2 plan has none,
  * so every field is kept as it is and nothing is added: absent means "none" (and 20 degrees C).
  *
  * Adding an optional field to the current version takes no new step: add it to `FIELDS_SINCE`
@@ -31,13 +31,13 @@ const steps: Record<number, Step> = {
  */
 export const FIELDS_SINCE = {
   plan: { profile: 2, airTemperatureC: 3, measurements: 3, systemMeasurementIds: 3 } as Record<string, number>,
-  output: { driverMeasurementId: 3, acousticOffset: 3 } as Record<string, number>,
+  output: { driverMeasurementId: 3, acousticOffset: 3, exportName: 3 } as Record<string, number>,
 };
 
 /** What each version added, for the refusal's message. */
 export const VERSION_ADDED: Record<number, string> = {
   2: 'board profiles',
-  3: 'measurements, acoustic offsets and the air temperature',
+  3: 'measurements, acoustic offsets, export names and the air temperature',
 };
 
 export function migrate(plan: Record<string, unknown>, fromVersion: number): Record<string, unknown> {

@@ -10,6 +10,8 @@ import { maxShelfSlope, safeShelfSlope, shelfSlopeLimitText, SHELF_SLOPE_Q_MAX }
 import { FIELDS_SINCE, migrate, VERSION_ADDED } from './migrate';
 import { parseJsonText } from './json';
 import { PlanError } from './error';
+import { exportNameProblem } from './export-name';
+import { shownToken } from './shown-text';
 import {
   ACOUSTIC_OFFSET_UNITS,
   BAND_TYPES,
@@ -120,10 +122,17 @@ function readCurrent(o: Record<string, unknown>): Plan {
     throw new PlanError('outputs', `must hold ${LIMITS.outputsMin} to ${LIMITS.outputsMax} outputs (has ${outputs.length})`);
   }
   const ids = new Set<string>();
+  const exportNamesSet = new Set<string>();
   outputs.forEach((v, i) => {
     const out = readOutput(v, `outputs[${i}]`, sampleRate, plan.input.bands.length);
     if (ids.has(out.id)) throw new PlanError(`outputs[${i}].id`, `"${out.id}" is used by another output`);
     ids.add(out.id);
+    if (out.exportName !== undefined) {
+      // Case is ignored: the C header upper-cases export names for its macros.
+      const key = out.exportName.toLowerCase();
+      if (exportNamesSet.has(key)) throw new PlanError(`outputs[${i}].exportName`, `"${out.exportName}" is used by another output (case is ignored)`);
+      exportNamesSet.add(key);
+    }
     plan.outputs.push(out);
   });
   if (o.profile !== undefined && o.profile !== null) plan.profile = readBoardProfile(o.profile, 'profile');
@@ -397,9 +406,15 @@ function edgeSections(edge: Crossover | null): number {
 
 function readOutput(v: unknown, path: string, fs: number, inputBands: number): Output {
   const o = object(v, path);
-  allowKeys(o, path, ['id', 'name', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands', 'driverMeasurementId', 'acousticOffset']);
+  allowKeys(o, path, ['id', 'name', 'exportName', 'gainDb', 'delayMs', 'invert', 'mute', 'highPass', 'lowPass', 'bands', 'driverMeasurementId', 'acousticOffset']);
   const id = str(o.id, `${path}.id`, 32);
   if (!LIMITS.idPattern.test(id)) throw new PlanError(`${path}.id`, 'must be 1 to 32 of a-z, 0-9, "_" or "-"');
+  let exportName: string | undefined;
+  if (o.exportName !== undefined) {
+    exportName = str(o.exportName, `${path}.exportName`, LIMITS.exportNameMaxLength);
+    const problem = exportNameProblem(exportName);
+    if (problem) throw new PlanError(`${path}.exportName`, problem);
+  }
   const gainDb = o.gainDb === undefined ? 0 : num(o.gainDb, `${path}.gainDb`);
   if (Math.abs(gainDb) > LIMITS.outputGainDbAbsMax) throw new PlanError(`${path}.gainDb`, `must be within +/-${LIMITS.outputGainDbAbsMax} dB`);
   const delayMs = o.delayMs === undefined ? 0 : num(o.delayMs, `${path}.delayMs`);
@@ -414,6 +429,7 @@ function readOutput(v: unknown, path: string, fs: number, inputBands: number): O
   const maxBands = Math.max(LIMITS.bandsMax, LIMITS.pathSectionsMax - inputBands - edgeSections(highPass) - edgeSections(lowPass));
   const bands = readBands(o.bands, `${path}.bands`, fs, maxBands);
   const out: Output = { id, name, gainDb, delayMs, invert, mute, highPass, lowPass, bands };
+  if (exportName !== undefined) out.exportName = exportName;
   // Version 3; the reference is checked against the plan's measurements in readMeasurementFields.
   if (o.driverMeasurementId !== undefined && o.driverMeasurementId !== null) out.driverMeasurementId = identifier(o.driverMeasurementId, `${path}.driverMeasurementId`);
   if (o.acousticOffset !== undefined && o.acousticOffset !== null) out.acousticOffset = readAcousticOffset(o.acousticOffset, `${path}.acousticOffset`);
@@ -533,7 +549,7 @@ function readCoefficients(v: unknown, path: string): RawCoefficients {
 function describe(v: unknown): string {
   if (v === null) return 'null';
   if (Array.isArray(v)) return 'a list';
-  if (typeof v === 'string') return `the string ${JSON.stringify(v.length > 40 ? v.slice(0, 40) + '...' : v)}`;
+  if (typeof v === 'string') return `the string ${shownToken(v, 40)}`;
   return typeof v === 'object' ? 'an object' : `${typeof v} ${String(v)}`;
 }
 

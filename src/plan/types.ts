@@ -1,8 +1,8 @@
 /**
  * The plan model: the in-memory shape is the file shape of `*.bqplan` version 3
  * (docs/plan-format.md), with every default filled in by the reader. Version 2 adds the optional
- * board profile, version 3 the measurements, the outputs' driver measurements and acoustic
- * offsets and the air temperature; older files are migrated on reading (migrate.ts).
+ * board profile, version 3 the measurements, the outputs' driver measurements, acoustic offsets
+ * and export names, and the air temperature; older files are migrated on reading (migrate.ts).
  * Units are in the names' documentation: Hz, dB (20 log10), ms, mm, degrees Celsius.
  */
 
@@ -90,6 +90,11 @@ export type EdgeKind = 'highPass' | 'lowPass';
 export interface Output {
   id: string;
   name: string;
+  /**
+   * Version 3: the identifier exports use for this output (a C identifier, unique in the plan
+   * ignoring case). Absent: a slug of `name` (export-name.ts), so it follows renames.
+   */
+  exportName?: string;
   gainDb: number;
   /** >= 0, a pure delay (not rounded to samples in the response). */
   delayMs: number;
@@ -227,6 +232,7 @@ export const LIMITS = {
   notesMaxLength: 100000,
   delayMsMax: 10000,
   idPattern: /^[a-z0-9_-]{1,32}$/,
+  exportNameMaxLength: 32,
   bandIdMaxLength: 32,
   nameMaxLength: 200,
   /** Board profiles (version 2). */

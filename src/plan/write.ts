@@ -28,6 +28,10 @@ function output(x: Output): Record<string, unknown> {
   const o: Record<string, unknown> = {
     id: x.id,
     name: x.name,
+  };
+  // Version 3, written only when set: without it the export name follows the output's name.
+  if (x.exportName !== undefined) o.exportName = x.exportName;
+  Object.assign(o, {
     gainDb: x.gainDb,
     delayMs: x.delayMs,
     invert: x.invert,
@@ -35,7 +39,7 @@ function output(x: Output): Record<string, unknown> {
     highPass: edge(x.highPass),
     lowPass: edge(x.lowPass),
     bands: x.bands.map(band),
-  };
+  });
   // Version 3, written only when set: an output of an older file is written as it was read.
   if (x.driverMeasurementId !== undefined) o.driverMeasurementId = x.driverMeasurementId;
   if (x.acousticOffset !== undefined) o.acousticOffset = { value: x.acousticOffset.value, unit: x.acousticOffset.unit };

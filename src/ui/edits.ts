@@ -217,6 +217,36 @@ export function neighbourAcross(plan: Plan, outputId: string, kind: EdgeKind): O
   return plan.outputs[j] ?? null;
 }
 
+/**
+ * A new edge for an output: the other side of the neighbouring crossover when there is one (a new
+ * high-pass takes the frequency, family, order and normalization of the low-pass edge of the
+ * output before it in the list, or of the nearest output that has one; a new low-pass likewise
+ * from the high-pass edge after it), so the two sides start matched. Without a neighbour: a
+ * Linkwitz-Riley 4th order at 80 Hz (high-pass) or 2 kHz (low-pass), kept two octaves clear of
+ * the output's other edge and below 0.45 of the sample rate.
+ */
+export function newEdge(plan: Plan, outputId: string, kind: EdgeKind): Crossover {
+  const i = plan.outputs.findIndex((o) => o.id === outputId);
+  const other = (o: Output) => (kind === 'highPass' ? o.lowPass : o.highPass);
+  const step = kind === 'highPass' ? -1 : 1;
+  // Nearest in list order, the adjacent output first, then further away on the same side, then the other side.
+  const order = plan.outputs
+    .map((o, k) => ({ o, k }))
+    .filter(({ k }) => k !== i)
+    .sort((a, b) => {
+      const da = (a.k - i) * step > 0 ? Math.abs(a.k - i) : 100 + Math.abs(a.k - i);
+      const db = (b.k - i) * step > 0 ? Math.abs(b.k - i) : 100 + Math.abs(b.k - i);
+      return da - db;
+    });
+  const from = order.map(({ o }) => other(o)).find((e) => e !== null);
+  if (from && from.frequency < plan.sampleRate / 2) return { ...from };
+  const me = plan.outputs[i];
+  const opposite = me ? (kind === 'highPass' ? me.lowPass : me.highPass) : null;
+  const base = kind === 'highPass' ? 80 : 2000;
+  const f = opposite ? (kind === 'highPass' ? Math.min(base, opposite.frequency / 4) : Math.max(base, opposite.frequency * 4)) : base;
+  return { family: 'linkwitz-riley', order: 4, frequency: Math.min(f, plan.sampleRate * AUDIO_BAND_TOP_FRACTION) };
+}
+
 /** Gives the neighbour across this edge the complementary edge (same family, order, frequency). */
 export function matchNeighbourEdge(plan: Plan, outputId: string, kind: EdgeKind): EditResult & { neighbourId?: string } {
   const me = plan.outputs.find((o) => o.id === outputId);

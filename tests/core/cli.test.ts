@@ -117,7 +117,7 @@ describe('coeffs', () => {
     expect(json.sampleRate).toBe(48000);
     expect(json.outputs.map((o: any) => o.id)).toEqual(['woofer', 'tweeter', 'spare']);
     json.outputs.forEach((o: any, k: number) => {
-      expect(Object.keys(o)).toEqual(['id', 'gain', 'delayMs', 'delaySamples', 'sections']);
+      expect(Object.keys(o)).toEqual(['id', 'exportName', 'gain', 'delayMs', 'delaySamples', 'sections']);
       expect(o.sections.length).toBe(outs[k].sections.length);
       o.sections.forEach((s: any, i: number) => {
         expect(Object.keys(s)).toEqual(['b0', 'b1', 'b2', 'a1', 'a2', 'from']);

@@ -251,7 +251,7 @@ describe('deep nesting, byte order mark, syntax errors', () => {
     expect(bare.ok).toBe(false);
     if (!bare.ok) expect(bare.error.message).toBe("not valid JSON at line 2, column 11 (unexpected 'x')");
     const empty = readPlanText('');
-    if (!empty.ok) expect(empty.error.message).toBe('not valid JSON at line 1, column 1 (unexpected end of text)');
+    if (!empty.ok) expect(empty.error.message).toBe('the file is empty');
     const nl = readPlanText('{"name": "a\nb"}');
     expect(nl.ok).toBe(false);
     if (!nl.ok) expect(nl.error.message).toBe('not valid JSON at line 1, column 12 (unexpected U+000A)');

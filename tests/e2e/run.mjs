@@ -8,6 +8,7 @@ import { mkdirSync, readFileSync } from 'node:fs';
 import { register } from 'tsx/esm/api';
 import { buildWeb, launchBrowser, root, serveWeb } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
+import { practiceChecks } from './practice.mjs';
 
 register();
 const { designPlan } = await import('../../src/design/chain.ts');
@@ -611,6 +612,7 @@ async function main() {
       await page.locator('[data-testid="legend-key"][data-curve="meas:woofer"]').first().click();
       await page.locator('[data-testid="legend-key"][data-curve="sum"]').first().click();
     });
+    await practiceChecks(browser, server.url, check);
 
     await check('no console errors or page errors', async () => {
       assert(errors.length === 0, errors.join('\n'));

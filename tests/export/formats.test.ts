@@ -67,7 +67,7 @@ describe('every format reads back to what the board computes', () => {
     const text = formatExport(list, format);
     const r = parseCoefficientList(text, profile);
     if (!r.ok) throw r.error;
-    expect(r.list.outputs.map((o) => o.id)).toEqual(list.outputs.map((o) => o.id));
+    expect(r.list.outputs.map((o) => o.id)).toEqual(list.outputs.map((o) => o.exportName));
     if (format !== 'csv') expect(r.list.sampleRate).toBe(list.sampleRate); // CSV has no place for it
     r.list.outputs.forEach((o, i) => {
       const want = list.outputs[i];

@@ -31,7 +31,7 @@ describe('section budget', () => {
     const r = buildExportList(plan, p);
     expect(r.ok).toBe(false);
     if (r.ok) return;
-    expect(r.problems).toEqual([diagnostic('export-budget', 'error', { kind: 'output', outputId: 'woofer' }, { outputId: 'woofer', sections: 12, budget: 10 })]);
+    expect(r.problems).toEqual([diagnostic('export-budget', 'error', { kind: 'output', outputId: 'woofer' }, { outputId: 'woofer', exportName: 'woofer', sections: 12, budget: 10 })]);
     expect(diagnosticMessage(r.problems[0])).toBe('output "woofer" needs 12 sections, 2 more than the board\'s 10: remove or merge 2 band(s) or crossover section(s)');
     p.sectionBudget = 3;
     const both = buildExportList(plan, p);

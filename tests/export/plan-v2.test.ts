@@ -89,7 +89,7 @@ describe('version 1 plans still open', () => {
     if (!r.ok) expect(r.error.path).toBe('profile');
   });
 
-  it('refuses a version above the current one with a clear message', () => {
+  it('refuses a version above this build\'s with a clear message', () => {
     const r = readPlanValue({ ...FULL_V1, version: PLAN_VERSION + 1 });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.error.message).toMatch(new RegExp(`version: ${PLAN_VERSION + 1} is not supported.*1 to ${PLAN_VERSION}`));

@@ -186,15 +186,52 @@ describe('display', () => {
   });
 });
 
-describe('refusal wording keeps what was typed', () => {
-  it('echoes the entry as typed and asks for a value when empty', async () => {
+describe('refusal wording: the reason, not the typed text again (the field still shows it)', () => {
+  it('says what is wanted and asks for a value when empty', async () => {
     const { parseQ, parseQOrBandwidth, parseSampleRate } = await import('../../src/ui/units');
     const q = parseQOrBandwidth('NaN');
     expect(q.ok).toBe(false);
-    if (!q.ok) expect(q.reason).toBe('"NaN" is not a Q');
+    if (!q.ok) expect(q.reason).toBe('not a Q (try 0.7, or a bandwidth such as 1/3 oct)');
+    const bw = parseQOrBandwidth('abc oct');
+    expect(!bw.ok && bw.reason).toBe('not a bandwidth (try 1/3 oct)');
+    if (!bw.ok) expect(bw.reason).not.toMatch(/abc/);
     const empty = parseQ('  ');
     expect(!empty.ok && empty.reason).toBe('enter a Q (e.g. 0.7)');
     const rate = parseSampleRate('');
     expect(!rate.ok && rate.reason).toBe('enter a sample rate (e.g. 48k)');
+  });
+});
+
+describe('commas are never silently read as decimals where they could group thousands', () => {
+  it.each([
+    ['1,500', /could be 1500 or 1\.500/],
+    ['2,200 Hz', /could be 2200 or 2\.200/],
+    ['1.500,5', /mixes commas and points/],
+  ])('%s is refused with a hint', async (text, why) => {
+    const { parseFrequency } = await import('../../src/ui/units');
+    const r = parseFrequency(text);
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.reason).toMatch(why);
+  });
+
+  it.each([
+    ['1,5k', 1500], // decimal comma: a thousands group has three digits
+    ['0,707', 0.707], // a group never follows a lone 0
+    ['1,500.5', 1500.5], // a comma before the point groups thousands
+    ['12,345', null], // ambiguous (12345 or 12.345): refused below
+    ['1,234,567', 1234567],
+  ])('%s reads as %s', async (text, want) => {
+    const { parseFrequency, parsePlainNumber } = await import('../../src/ui/units');
+    const r = text === '0,707' ? parsePlainNumber(text) : parseFrequency(text);
+    if (want === null) expect(r.ok).toBe(false);
+    else expect(r.ok && r.value).toBe(want);
+  });
+
+  it('gain, Q, delay and sample rate refuse "1,500" too', async () => {
+    const u = await import('../../src/ui/units');
+    for (const r of [u.parseGainDb('1,500'), u.parseQ('1,500'), u.parseDelayMs('1,500'), u.parseSampleRate('44,100'), u.parseQOrBandwidth('1,500 oct')]) {
+      expect(r.ok).toBe(false);
+      if (!r.ok) expect(r.reason).toMatch(/could be/);
+    }
   });
 });

@@ -7,6 +7,7 @@ import { DRAG_TOP_FRACTION } from '../../../src/analysis/thresholds';
 import { BAND_PARAMETERS, DEFAULT_Q } from '../../../src/design/cookbook';
 import type { Band, Plan } from '../../../src/plan/types';
 import type { PlanDocument } from '../../../src/ipc';
+import { tick } from 'svelte';
 import * as edits from '../../../src/ui/edits';
 import { INPUT, type ChainRef } from '../../../src/ui/edits';
 import { roundFrequency, roundGain, roundQ } from '../../../src/ui/units';
@@ -118,6 +119,12 @@ export function addBandToSelected(init?: Partial<Band>): void {
   if (commit(r) && r.ok && r.bandId) view.select(chain, r.bandId);
 }
 
+/**
+ * Removes the selected band (any view) and selects the one that took its place. Focus stays where
+ * it was when that is still on the page (the plot: the keys go on to the next band); when it was
+ * on something the delete took away (the band's own remove button) or on nothing, it goes to the
+ * newly selected band's row in the list, or to "+ Band" when the chain is empty.
+ */
 export function removeSelectedBand(): void {
   const band = selectedBand();
   if (!band) return;
@@ -126,8 +133,19 @@ export function removeSelectedBand(): void {
   const i = bands.findIndex((b) => b.id === band.id);
   if (commit(edits.removeBand(doc.plan, chain, band.id))) {
     const rest = edits.chainBands(doc.plan, chain);
-    view.select(chain, rest[Math.min(i, rest.length - 1)]?.id ?? null);
+    const next = rest[Math.min(i, rest.length - 1)]?.id ?? null;
+    view.select(chain, next);
+    void tick().then(() => settleFocus(next));
   }
+}
+
+function settleFocus(bandId: string | null): void {
+  if (typeof document === 'undefined') return;
+  const active = document.activeElement;
+  if (active && active !== document.body && active.isConnected) return;
+  // Compared by value rather than by a selector, so no id needs escaping (and no CSS.escape is needed).
+  const row = bandId ? ([...document.querySelectorAll<HTMLElement>('[data-testid="band-row"]')].find((r) => r.dataset.band === bandId) ?? null) : null;
+  (row ?? document.querySelector<HTMLElement>('[data-testid="band-add"]'))?.focus();
 }
 
 export function addOutput(): void {
@@ -231,4 +249,16 @@ export function undo(): void {
 
 export function redo(): void {
   if (!doc.redo()) view.notify('info', 'Nothing to redo.', 1500);
+}
+
+// ---- plan sheet -------------------------------------------------------------------------------
+
+/**
+ * Prints the plan sheet (the browser's or Electron's print dialog, where "Save as PDF" writes the
+ * PDF). The sheet is laid out first; the page's print stylesheet shows it alone.
+ */
+export async function printPlanSheet(): Promise<void> {
+  view.printing = true;
+  await tick();
+  window.print();
 }

@@ -4,7 +4,7 @@
  * The command line words the same diagnostics with ids and field paths; nothing here reads a
  * sentence back.
  */
-import type { Diagnostic, DiagnosticCode, DiagnosticTarget, RateMisfit } from '../../../src/diagnostics';
+import { gainScalingText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '../../../src/diagnostics';
 import type { Plan } from '../../../src/plan/types';
 import { formatFrequency as fmtHz } from '../../../src/ui/units';
 import { dbText, peakPlaceText } from '../../../src/format';
@@ -96,6 +96,7 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
     `${outputName(plan, d.values.outputId)} is delayed ${d.values.delaySamples} samples, ${d.values.delaySamples - d.values.maxSamples} more than the board's ${d.values.maxSamples}`,
   'export-rate': (plan, d) =>
     `the board runs at ${fmtHz(d.values.boardHz)}, the plan at ${fmtHz(d.values.planHz)}; redesigning at the board's rate fails: ${diagnosticText(plan, d.values.refusal)}`,
+  'export-gain-scaling': (plan, d) => `${targetText(plan, d.target)}: ${gainScalingText(d.values)}`,
   'rate-misfit': (plan, d) => {
     const { misfits } = d.values;
     const more = misfits.length > 3 ? ` and ${misfits.length - 3} more` : '';

@@ -1,36 +1,9 @@
 /** Display names for plan values (trade terms; the plan file keeps its own identifiers). */
-import type { BandType, BesselNormalization, CrossoverFamily } from '../../../src/plan/types';
+import { BAND_TYPES, type BandType, type BesselNormalization, type CrossoverFamily } from '../../../src/plan/types';
+import { BAND_TYPE_WORDS, capitalized } from '../../../src/plan/words';
 
-export const BAND_TYPE_LABEL: Record<BandType, string> = {
-  peaking: 'Peaking',
-  lowShelf: 'Low shelf',
-  highShelf: 'High shelf',
-  lowPass: 'Low-pass, 2nd order',
-  highPass: 'High-pass, 2nd order',
-  bandPass: 'Band-pass',
-  notch: 'Notch',
-  allPass: 'All-pass, 2nd order',
-  lowPass1: 'Low-pass, 1st order',
-  highPass1: 'High-pass, 1st order',
-  allPass1: 'All-pass, 1st order',
-  raw: 'Raw coefficients',
-};
-
-/** Short forms for the band list. */
-export const BAND_TYPE_SHORT: Record<BandType, string> = {
-  peaking: 'PK',
-  lowShelf: 'LS',
-  highShelf: 'HS',
-  lowPass: 'LP2',
-  highPass: 'HP2',
-  bandPass: 'BP',
-  notch: 'N',
-  allPass: 'AP2',
-  lowPass1: 'LP1',
-  highPass1: 'HP1',
-  allPass1: 'AP1',
-  raw: 'RAW',
-};
+/** The band types spelled out (src/plan/words.ts), as a label starts. */
+export const BAND_TYPE_LABEL = Object.fromEntries(BAND_TYPES.map((t) => [t, capitalized(BAND_TYPE_WORDS[t])])) as Record<BandType, string>;
 
 export const FAMILY_LABEL: Record<CrossoverFamily, string> = {
   butterworth: 'Butterworth',

@@ -8,6 +8,25 @@ import type { Diagnostic } from '../../../src/diagnostics';
 import type { Plan } from '../../../src/plan/types';
 import type { EditResult } from '../../../src/ui/edits';
 import { freshPlan } from '../../../src/ui/edits';
+import { planToJson } from '../../../src/plan/write';
+
+/** The plan as its file would hold it: two plans with the same text are the same document. */
+const textOf = new WeakMap<Plan, string>();
+function planText(plan: Plan): string {
+  let t = textOf.get(plan);
+  if (t === undefined) {
+    t = JSON.stringify(planToJson(plan));
+    textOf.set(plan, t);
+  }
+  return t;
+}
+
+/** Same content: the same object, or objects that would save to the same file. */
+export function samePlan(a: Plan | null, b: Plan | null): boolean {
+  if (a === b) return true;
+  if (a === null || b === null) return false;
+  return planText(a) === planText(b);
+}
 
 const HISTORY_MAX = 300;
 /** Edits with the same coalescing key closer than this become one undo step (keyboard nudges, wheel). */
@@ -31,6 +50,8 @@ export class DocumentState {
   #coalesce: { key: string; at: number } | null = null;
   /** Bumped on every change, for autosave's idle timer. */
   #revision = $state(0);
+  /** Bumped when another document is loaded (open, new, revert, recovery): editors reset their typing. */
+  #generation = $state(0);
   /** The plan the side panel shows: the plan, except mid-drag where it trails by up to SHOWN_INTERVAL_MS. */
   #shown = $state.raw<Plan>(this.#plan);
   #shownTimer: ReturnType<typeof setTimeout> | null = null;
@@ -45,8 +66,9 @@ export class DocumentState {
   get path(): string | null {
     return this.#path;
   }
+  /** Unsaved: the plan differs from the saved one in content (an edit undone or typed back is not a change). */
   get dirty(): boolean {
-    return this.#plan !== this.#saved;
+    return !samePlan(this.#plan, this.#saved);
   }
   get canUndo(): boolean {
     return this.#undo.length > 0 || this.#gestureStart !== null;
@@ -59,6 +81,9 @@ export class DocumentState {
   }
   get revision(): number {
     return this.#revision;
+  }
+  get generation(): number {
+    return this.#generation;
   }
   get title(): string {
     return this.#plan.name || 'Untitled plan';
@@ -77,6 +102,7 @@ export class DocumentState {
     this.#redo = [];
     this.#coalesce = null;
     this.#revision++;
+    this.#generation++;
   }
 
   /** Records `plan` (by default the current one) as saved at `path`. */
@@ -91,7 +117,8 @@ export class DocumentState {
    */
   apply(result: EditResult, opts: { coalesce?: string } = {}): Diagnostic | null {
     if (!result.ok) return result.diagnostic;
-    if (result.plan === this.#plan) return null;
+    // An edit that changes nothing (a value typed again, a handle clicked without a move) is no step.
+    if (samePlan(result.plan, this.#plan)) return null;
     if (this.#gestureStart === null) {
       const now = Date.now();
       const merge = opts.coalesce !== undefined && this.#coalesce?.key === opts.coalesce && now - this.#coalesce.at < COALESCE_MS;
@@ -129,11 +156,15 @@ export class DocumentState {
     this.#gestureStart = null;
     this.#dragging = false;
     this.#coalesce = null;
-    this.#shown = this.#plan;
-    if (start !== this.#plan) {
+    if (samePlan(start, this.#plan)) {
+      // A click on a handle without a move: no undo step, and the very plan of before (so an
+      // identity check against the saved plan still holds).
+      this.#plan = start;
+    } else {
       this.#push(start);
       this.#redo = [];
     }
+    this.#shown = this.#plan;
   }
 
   #endGestureSilently(): void {

@@ -35,6 +35,8 @@ export class ViewState {
   #magRange = $state.raw<[number, number]>([-30, 12]);
   #solo = $state.raw<readonly string[]>([]);
   #notice = $state.raw<Notice | null>(null);
+  /** The plan sheet is laid out only while the page prints (it costs a response and an analysis). */
+  #printing = $state(false);
   #noticeTimer: ReturnType<typeof setTimeout> | null = null;
 
   get view(): ViewName {
@@ -66,6 +68,12 @@ export class ViewState {
   }
   get notice(): Notice | null {
     return this.#notice;
+  }
+  get printing(): boolean {
+    return this.#printing;
+  }
+  set printing(v: boolean) {
+    this.#printing = v;
   }
 
   /** The selected chain if it exists in `plan`, else the first output. */
