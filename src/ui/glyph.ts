@@ -13,14 +13,15 @@ const POINTS = 24;
 const DB_TOP = 12;
 const DB_BOTTOM = -24;
 
-/** The typical band each glyph shows. */
-function typical(type: BandType): Band {
+/** The typical band each glyph shows; a cut (negative gain) is drawn as a cut. */
+function typical(type: BandType, cut: boolean): Band {
+  const gainDb = cut ? -9 : 9;
   switch (type) {
     case 'peaking':
-      return { id: 'g', type, frequency: 1000, gainDb: 9, q: 1.4, enabled: true };
+      return { id: 'g', type, frequency: 1000, gainDb, q: 1.4, enabled: true };
     case 'lowShelf':
     case 'highShelf':
-      return { id: 'g', type, frequency: 1000, gainDb: 9, slope: 1, enabled: true };
+      return { id: 'g', type, frequency: 1000, gainDb, slope: 1, enabled: true };
     case 'notch':
       return { id: 'g', type, frequency: 1000, q: 2, enabled: true };
     case 'bandPass':
@@ -62,10 +63,15 @@ export interface Glyph {
 }
 
 /**
- * The glyph of a band type, or of a raw band's own coefficients (a raw band has no typical shape).
+ * The glyph of a band type (as a cut when `band` cuts), or of a raw band's own coefficients (a raw
+ * band has no typical shape).
  */
-export function bandGlyph(type: BandType, width: number, height: number, raw?: Band): Glyph {
-  const band = type === 'raw' ? raw : typical(type);
+export function bandGlyph(type: BandType, width: number, height: number, band?: Band): Glyph {
+  const drawn = type === 'raw' ? band : typical(type, (band?.gainDb ?? 0) < 0);
+  return glyphOf(drawn, type, width, height);
+}
+
+function glyphOf(band: Band | undefined, type: BandType, width: number, height: number): Glyph {
   const phase = type === 'allPass' || type === 'allPass1';
   if (!band) return { path: `M0 ${height / 2} H${width}`, phase: false };
   const sections = designBand(band, FS);

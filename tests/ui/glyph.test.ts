@@ -48,6 +48,20 @@ describe('band glyphs', () => {
     expect(ls[0]).toBeLessThan(ls[ls.length - 1] - 2); // boost at low frequencies
   });
 
+  it('a cut is drawn as a cut: a peaking cut is lowest mid-way, a low-shelf cut is low at low frequencies', () => {
+    const ysOf = (type: BandType, gainDb: number) =>
+      bandGlyph(type, W, H, { id: 'x', type, frequency: 100, gainDb, q: 4, enabled: true })
+        .path.split(/[ML]/)
+        .filter(Boolean)
+        .map((p) => Number(p.trim().split(' ')[1]));
+    const pk = ysOf('peaking', -4.5);
+    const low = pk.indexOf(Math.max(...pk));
+    expect(low).toBeGreaterThan(5);
+    expect(low).toBeLessThan(pk.length - 5);
+    const ls = ysOf('lowShelf', -6);
+    expect(ls[0]).toBeGreaterThan(ls[ls.length - 1] + 2);
+  });
+
   it('all-pass types are drawn as their falling phase', () => {
     for (const t of ['allPass', 'allPass1'] as const) {
       const g = bandGlyph(t, W, H);
