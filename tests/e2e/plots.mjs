@@ -252,6 +252,21 @@ async function main() {
       await page.keyboard.press('Control+z');
     });
 
+    await check("a handle's tooltip names its band in words (number, type, values), never a letter code", async () => {
+      const h = await hook(() => window.__biquadrant.handle('b1'));
+      assert(h, 'handle b1 not on the plot');
+      await page.mouse.move(h.x + 40, h.y + 40);
+      await page.mouse.move(h.x, h.y);
+      const title = await page.getByTestId('plot-magnitude').getAttribute('title');
+      const b = (await plan()).outputs[0].bands[0];
+      assert(b.type === 'peaking', `band b1 is ${b.type}`);
+      assert(/^1 · Peaking · /.test(title ?? ''), `tooltip: ${title}`);
+      assert(/ dB/.test(title) && /Q /.test(title), `tooltip lacks gain or Q: ${title}`);
+      await page.mouse.move(h.x + 200, h.y + 120);
+      const away = await page.getByTestId('plot-magnitude').getAttribute('title');
+      assert(!away, `tooltip stays off the handle: ${away}`);
+    });
+
     await check('the Z-plane zooms with the wheel and to the roots near z = 1', async () => {
       page.once('dialog', (d) => d.accept());
       await openPlanText(page, 'two-way.bqplan', readFileSync(`${root}/assets/two-way-monitor.bqplan`, 'utf8'));

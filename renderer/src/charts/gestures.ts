@@ -29,6 +29,8 @@ export interface GestureOptions {
   onHover?(x: number | null, y: number | null): void;
   /** Handle under a canvas-relative pixel, or null. */
   hitHandle?(x: number, y: number): string | null;
+  /** The tooltip of a handle (what band it is), shown while the pointer rests on it. */
+  handleTitle?(id: string): string | null;
   onHandleDown?(id: string): void;
   onHandleDrag?(id: string, d: DragDelta): void;
   onHandleUp?(id: string, moved: boolean): void;
@@ -115,7 +117,10 @@ export function attachGestures(el: HTMLElement, o: GestureOptions): () => void {
     } else {
       const inside = inArea(m, e.offsetX, e.offsetY);
       o.onHover?.(inside && m ? m.x.toValue(e.offsetX) : null, inside && m ? m.y.toValue(e.offsetY) : null);
-      el.style.cursor = inside && o.hitHandle?.(e.offsetX, e.offsetY) ? 'grab' : 'crosshair';
+      const over = inside ? (o.hitHandle?.(e.offsetX, e.offsetY) ?? null) : null;
+      el.style.cursor = over ? 'grab' : 'crosshair';
+      const title = over ? (o.handleTitle?.(over) ?? '') : '';
+      if (el.title !== title) el.title = title;
     }
   });
 

@@ -45,6 +45,8 @@ export interface PlotHandle {
   db: number;
   color: string;
   selected: boolean;
+  /** The handle's tooltip: its number, the band type in words and its values. */
+  title?: string;
 }
 
 export interface PlotFrame {
@@ -326,6 +328,7 @@ export class ResponsePlots {
       onReset: () => this.#cb.onResetRange(),
       onHover: (f) => this.#cb.onHover(f),
       hitHandle: magnitude ? (x, y) => this.#hitHandle(x, y) : undefined,
+      handleTitle: magnitude ? (id) => this.#frame?.handles.find((h) => h.id === id)?.title ?? null : undefined,
       onHandleDown: (id) => this.#cb.onHandleDown(id),
       onHandleDrag: (id, d) => this.#cb.onHandleDrag(id, d),
       onHandleUp: (id, moved) => this.#cb.onHandleUp(id, moved),
