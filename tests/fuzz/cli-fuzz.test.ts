@@ -14,7 +14,8 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { runCli, type CliIo, type CliResult } from '../../src/cli/run';
+import type { CliIo, CliResult } from '../../src/cli/run';
+import { run, type Stats } from './invariants';
 import { readPlanText } from '../../src/plan/read';
 import { BUILT_IN_PROFILES } from '../../src/export/profiles';
 import { EXPORT_FORMATS } from '../../src/export/format';
@@ -73,37 +74,6 @@ const io = (files: Record<string, string>): CliIo => ({
     return files[p];
   },
 });
-
-const NON_FINITE = /\b(NaN|Infinity)\b/;
-
-interface Stats {
-  cases: number;
-  ok: number;
-  failures: string[];
-}
-
-/** Runs one command and checks the invariants every result must keep. */
-function run(stats: Stats, label: string, argv: string[], files: CliIo): CliResult | null {
-  stats.cases++;
-  let r: CliResult;
-  try {
-    r = runCli(argv, files);
-  } catch (e) {
-    stats.failures.push(`${label} ${argv.join(' ')}: threw ${(e as Error).stack?.split('\n').slice(0, 3).join(' | ')}`);
-    return null;
-  }
-  if (![0, 1, 2].includes(r.code)) stats.failures.push(`${label} ${argv.join(' ')}: exit ${r.code}`);
-  if (r.code === 0) {
-    stats.ok++;
-    if (NON_FINITE.test(r.stdout) || NON_FINITE.test(r.stderr)) stats.failures.push(`${label} ${argv.join(' ')}: NaN/Infinity in output ${(r.stdout.match(/.{0,60}\b(NaN|Infinity)\b.{0,20}/) ?? [''])[0]}`);
-  }
-  if (r.code === 1) {
-    for (const line of r.stderr.replace(/\n$/, '').split('\n')) {
-      if (!/^(error|warning): /.test(line)) stats.failures.push(`${label} ${argv.join(' ')}: refusal line "${line.slice(0, 80)}"`);
-    }
-  }
-  return r;
-}
 
 /** An import's plan must be one the reader accepts, and (every `checkEvery`-th one) `check` too. */
 function importReadsBack(stats: Stats, label: string, r: CliResult | null, withCheck: boolean): void {

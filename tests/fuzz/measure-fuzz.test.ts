@@ -11,7 +11,8 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { runCli, type CliIo, type CliResult } from '../../src/cli/run';
+import type { CliIo } from '../../src/cli/run';
+import { run, type Stats } from './invariants';
 import { readPlanText } from '../../src/plan/read';
 import { mulberry32, mutateText, pick, type Rng } from './mutate';
 
@@ -72,36 +73,6 @@ const io = (text: Record<string, string>, bytes: Record<string, Uint8Array>): Cl
     throw new Error(`ENOENT: no such file '${p}'`);
   },
 });
-
-const NON_FINITE = /\b(NaN|Infinity)\b/;
-
-interface Stats {
-  cases: number;
-  ok: number;
-  failures: string[];
-}
-
-function run(stats: Stats, label: string, argv: string[], files: CliIo): CliResult | null {
-  stats.cases++;
-  let r: CliResult;
-  try {
-    r = runCli(argv, files);
-  } catch (e) {
-    stats.failures.push(`${label} ${argv.join(' ')}: threw ${(e as Error).stack?.split('\n').slice(0, 3).join(' | ')}`);
-    return null;
-  }
-  if (![0, 1, 2].includes(r.code)) stats.failures.push(`${label} ${argv.join(' ')}: exit ${r.code}`);
-  if (r.code === 0) {
-    stats.ok++;
-    if (NON_FINITE.test(r.stdout)) stats.failures.push(`${label} ${argv.join(' ')}: NaN/Infinity in output`);
-  }
-  if (r.code === 1) {
-    for (const line of r.stderr.replace(/\n$/, '').split('\n')) {
-      if (!/^(error|warning): /.test(line)) stats.failures.push(`${label} ${argv.join(' ')}: refusal line "${line.slice(0, 80)}"`);
-    }
-  }
-  return r;
-}
 
 describe('seeded mutation fuzzing of the measurement commands', () => {
   it(`${FILES} mutated text and WAV measurements through measure, attach and response --acoustic`, () => {
