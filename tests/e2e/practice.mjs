@@ -4,7 +4,7 @@
 // glyphs and the section budget on screen. Called by run.mjs (a fresh page per check group);
 // `node tests/e2e/practice.mjs` runs them alone. Screenshots go to test-results/.
 import { readFileSync } from 'node:fs';
-import { root } from './serve.mjs';
+import { assert, root } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
 
 const OUT = `${root}/test-results`;
@@ -14,9 +14,6 @@ const SIZES = [
   [900, 600],
 ];
 
-function assert(cond, message) {
-  if (!cond) throw new Error(message);
-}
 
 /** Console and page errors of every page these checks open. */
 const errors = [];
@@ -343,30 +340,16 @@ export async function practiceChecks(browser, url, check) {
 
 // Alone: node tests/e2e/practice.mjs (NO_BUILD=1 to reuse dist-web).
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const { buildWeb, launchBrowser, serveWeb } = await import('./serve.mjs');
+  const { buildWeb, checkRunner, launchBrowser, serveWeb } = await import('./serve.mjs');
   if (!process.env.NO_BUILD) await buildWeb();
   const server = await serveWeb();
   const browser = await launchBrowser();
-  let passed = 0;
-  let failed = 0;
-  const only = process.env.ONLY;
-  const check = async (name, fn) => {
-    if (only && !name.includes(only)) return;
-    try {
-      await fn();
-      passed++;
-      console.log(`  ok   ${name}`);
-    } catch (e) {
-      failed++;
-      console.log(`  FAIL ${name}\n       ${(e && e.stack) || e}`);
-    }
-  };
+  const tally = checkRunner();
   try {
-    await practiceChecks(browser, server.url, check);
+    await practiceChecks(browser, server.url, tally.check);
   } finally {
     await browser.close();
     await server.close();
-    console.log(`practice: ${passed} passed, ${failed} failed`);
-    process.exitCode = failed > 0 ? 1 : 0;
+    tally.summary('practice');
   }
 }

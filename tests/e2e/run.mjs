@@ -6,7 +6,7 @@
 // test-results/. Exits non-zero on any failure; the last line reads `e2e: N passed, M failed`.
 import { mkdirSync, readFileSync } from 'node:fs';
 import { register } from 'tsx/esm/api';
-import { buildWeb, launchBrowser, root, serveWeb } from './serve.mjs';
+import { buildWeb, launchBrowser, root, serveWeb, assert, checkRunner } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
 import { practiceChecks } from './practice.mjs';
 
@@ -19,22 +19,8 @@ const { predictAcoustic } = await import('../../src/measure/acoustic.ts');
 const OUT = `${root}/test-results`;
 mkdirSync(OUT, { recursive: true });
 
-let passed = 0;
-let failed = 0;
-async function check(name, fn) {
-  try {
-    await fn();
-    passed++;
-    console.log(`  ok   ${name}`);
-  } catch (e) {
-    failed++;
-    console.log(`  FAIL ${name}\n       ${(e && e.stack) || e}`);
-  }
-}
-
-function assert(cond, message) {
-  if (!cond) throw new Error(message);
-}
+const tally = checkRunner();
+const check = tally.check;
 
 /**
  * The plotted curves against the core. Same code path, so the tolerance is floating-point noise
@@ -624,11 +610,5 @@ async function main() {
 }
 
 main()
-  .catch((e) => {
-    failed++;
-    console.log(`  FAIL setup\n       ${(e && e.stack) || e}`);
-  })
-  .finally(() => {
-    console.log(`e2e: ${passed} passed, ${failed} failed`);
-    process.exitCode = failed > 0 ? 1 : 0;
-  });
+  .catch((e) => tally.fail(e))
+  .finally(() => tally.summary('e2e'));

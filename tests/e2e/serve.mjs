@@ -35,3 +35,39 @@ export const CHROMIUM_ARGS = [
 export async function launchBrowser() {
   return chromium.launch({ executablePath: process.env.CHROMIUM || '/usr/bin/chromium', args: CHROMIUM_ARGS, headless: true });
 }
+
+/**
+ * A tally of named browser checks: `check(name, fn)` runs one and prints ok or FAIL with the
+ * error; `fail(e)` counts a failure outside a check (setup); `summary(label)` prints
+ * "LABEL: N passed, N failed" and sets the exit code. `only` runs just the checks whose name holds it.
+ */
+export function checkRunner(only = process.env.ONLY) {
+  let passed = 0;
+  let failed = 0;
+  return {
+    async check(name, fn) {
+      if (only && !name.includes(only)) return;
+      try {
+        await fn();
+        passed++;
+        console.log(`  ok   ${name}`);
+      } catch (e) {
+        failed++;
+        console.log(`  FAIL ${name}\n       ${(e && e.stack) || e}`);
+      }
+    },
+    fail(e) {
+      failed++;
+      console.log(`  FAIL setup\n       ${(e && e.stack) || e}`);
+    },
+    summary(label) {
+      console.log(`${label}: ${passed} passed, ${failed} failed`);
+      process.exitCode = failed > 0 ? 1 : 0;
+    },
+  };
+}
+
+/** Throws with `message` unless `cond` holds. */
+export function assert(cond, message) {
+  if (!cond) throw new Error(message);
+}
