@@ -1,9 +1,9 @@
 /**
- * The "high-frequency output with no high-pass" warning of `check` (the command line contract,
- * ../shared/design/cli.md: "a high-frequency output with no high-pass"). A high-pass band of the
+ * The "high-frequency output with no high-pass" warning of `check` (README, the command table:
+ * `check` prints the warnings). A high-pass band of the
  * output's own chain (the cookbook 2nd-order or the 1st-order high-pass) is a high-pass too; a
- * disabled one is not, and neither is a high-pass in the shared input chain alone. Found by the
- * independent checker of the command line (a tweeter high-passed by a band was flagged "danger").
+ * disabled one is not, and neither is a high-pass in the shared input chain alone (a tweeter
+ * high-passed by a band must not be flagged "danger").
  */
 import { describe, expect, it } from 'vitest';
 import { analyzePlan } from '../../src/analysis/check';

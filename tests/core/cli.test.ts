@@ -1,5 +1,5 @@
 /**
- * The command line (/work/shared/design/cli.md) through runCli with an in-memory file system,
+ * The command line (README, the command table) through runCli with an in-memory file system,
  * and once through the real `npm run --silent cli` to prove it runs without a build step.
  */
 import { execFileSync } from 'node:child_process';
@@ -288,7 +288,7 @@ describe('response of the reference plans (plans.json) through the command line,
       const outs = designPlan(read.plan);
       const live = c.exact.outputs.filter((o) => !o.mute);
       expect(j.outputs.map((o: any) => o.id)).toEqual(live.map((o) => o.id));
-      // The checker's bar (issue 2): 1e-6 dB, 1e-4 degrees, 1e-5 relative group delay. Here
+      // The project's accuracy bar: 1e-6 dB, 1e-4 degrees, 1e-5 relative group delay. Here
       // tighter: 1e-9 dB / 1e-7 degrees plus each output's float64 bound (see response.test.ts).
       [...live.map((o, k) => ({ ref: o, got: j.outputs[k], secs: outs.find((d) => d.id === o.id)!.sections })), { ref: c.exact.sum, got: j.sum, secs: outs.flatMap((d) => d.sections) }].forEach(({ ref, got, secs }) => {
         c.freqs.forEach((f, i) => {

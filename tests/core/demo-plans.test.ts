@@ -54,7 +54,7 @@ describe('demo plans in assets/', () => {
 
   it('two-way-monitor: sum / input chain is flat within 0.1 dB from 20 Hz to 20 kHz (notes: "the electrical sum is flat")', () => {
     const d = sumOverInput(load('two-way-monitor.bqplan'));
-    // LR4 all-pass: exactly 0 dB up to rounding; 0.1 dB is the brief's bar.
+    // LR4 all-pass: exactly 0 dB up to rounding; 0.1 dB is the demo's stated tolerance.
     expect(worst(d)).toBeLessThan(0.1);
     expect(worst(d)).toBeLessThan(1e-9); // and in fact flat to rounding
   });

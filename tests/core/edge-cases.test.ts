@@ -1,5 +1,5 @@
 /**
- * Edge cases (issue 2): a frequency a hair under Nyquist, Q of 0.05 and 50, gains of +/-30 dB, an
+ * Edge cases: a frequency a hair under Nyquist, Q of 0.05 and 50, gains of +/-30 dB, an
  * order-8 Bessel edge at 20 Hz at 192 kHz: finite numbers or a clear validation error, never NaN.
  * Then a sweep of every band type and every edge over extremes that the plan reader accepts.
  */

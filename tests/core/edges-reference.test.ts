@@ -15,7 +15,7 @@
  *   - C ulps times K everywhere: C = 8 for evaluating given sections (the kernel; measured worst
  *     1.8) and C = 64 for our own design (measured worst 22, for Bessel poles that come out of a
  *     double-precision root finder; Butterworth 1.4).
- * Group delay: relative 1e-8 (measured worst 2e-9, all cases); the checker's bar is 1e-5.
+ * Group delay: relative 1e-8 (measured worst 2e-9, all cases); the project's accuracy bar is 1e-5.
  */
 import { describe, expect, it } from 'vitest';
 import { designEdge } from '../../src/design/crossover';

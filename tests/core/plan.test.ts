@@ -1,5 +1,5 @@
 /**
- * The plan reader and writer (docs/plan-format.md; issue 2): every error names its field path;
+ * The plan reader and writer (docs/plan-format.md): every error names its field path;
  * unknown format and versions are refused; NaN, Infinity, numbers as strings and unknown fields
  * are refused; random JSON yields a plan or a PlanError and never throws; write -> read gives the
  * same plan and writing is stable.

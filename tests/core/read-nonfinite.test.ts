@@ -2,7 +2,7 @@
  * Bare NaN / Infinity in a plan file. They are not JSON (RFC 8259, section 6: "Numeric values
  * that cannot be represented ... such as Infinity and NaN are not permitted"), so JSON.parse
  * refuses the whole text; the plan contract (docs/plan-format.md, "Conventions") still wants the
- * refusal to name the field's path. Found by the independent checker of the command line.
+ * refusal to name the field's path.
  */
 import { describe, expect, it } from 'vitest';
 import { readPlanText } from '../../src/plan/read';

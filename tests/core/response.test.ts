@@ -174,7 +174,7 @@ describe('sum of outputs', () => {
     // Two outputs with different delays make the sum's group delay vary fast. A central 5-point
     // difference with step h (in w) has truncation error ~ h^4 phi^(5) / 30 and rounding error
     // ~ eps |phi| / h; with h = 1e-4 rad/sample both stay below 1e-6 of the delay here, so 1e-5
-    // relative (the checker's bar) is a safe tolerance.
+    // relative (the project's accuracy bar) is a safe tolerance.
     const lp = designEdge({ family: 'butterworth', order: 3, frequency: 900 }, 'lowPass', FS);
     const hp = designEdge({ family: 'butterworth', order: 3, frequency: 900 }, 'highPass', FS);
     const at = (w: number[]) => {

@@ -8,8 +8,8 @@
  * Reference (independent of the core's analytic derivative): the sum evaluated here with plain
  * complex arithmetic from the sections, and its group delay -d(arg S)/dw by a central 5-point
  * difference (truncation ~ h^4 phi^(5) / 30, rounding ~ eps |phi| / h: both far below the 1e-5
- * relative bar at the steps used). Found by the independent checker of the command line: the sum
- * skipped the derivative of such outputs (errors of 1e-3 relative below the floor, 30 % at a notch).
+ * relative tolerance at the steps used). Skipping the derivative of such outputs would give errors
+ * of 1e-3 relative below the floor and 30 % at a notch.
  */
 import { describe, expect, it } from 'vitest';
 import { designBand } from '../../src/design/cookbook';

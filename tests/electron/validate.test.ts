@@ -136,7 +136,7 @@ describe('isAppUrl (sender check)', () => {
   it('refuses other hosts, schemes, ports, credentials and junk', () => {
     expect(isAppUrl('app://other/index.html', 'app://biquadrant')).toBe(false);
     expect(isAppUrl('https://biquadrant/index.html', 'app://biquadrant')).toBe(false);
-    expect(isAppUrl('file:///work/out/renderer/index.html', 'app://biquadrant')).toBe(false);
+    expect(isAppUrl('file:///home/user/biquadrant/out/renderer/index.html', 'app://biquadrant')).toBe(false);
     expect(isAppUrl('http://localhost:5174/', 'http://localhost:5173')).toBe(false);
     expect(isAppUrl('http://evil.example/', 'http://localhost:5173')).toBe(false);
     expect(isAppUrl('app://user:pw@biquadrant/index.html', 'app://biquadrant')).toBe(false);

@@ -1,7 +1,7 @@
 /**
  * A profile file (`export --profile FILE`) with a bare NaN or Infinity: not JSON (RFC 8259,
- * section 6), and the command line contract (../shared/design/cli.md) wants exit 1 with a one-line
- * message naming the file and the field path. Found by the independent checker of the command line.
+ * section 6), and the command line (README, "Exit codes") exits 1 with a one-line message naming
+ * the file and the field path.
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';

@@ -6,7 +6,7 @@ Writes tests/reference/fixtures/*.json. The output is deterministic (sorted keys
 with Python's repr, one case per line) so CI can re-run this script and `git diff --exit-code`
 the fixtures.
 
-Sources (see /work/shared/design/references.md):
+Sources (see docs/references.md):
 - scipy.signal.butter / scipy.signal.bessel with fs= (bilinear transform pre-warped at the edge),
   scipy.signal.sosfreqz for the complex response.
 - Linkwitz-Riley of order 2n = Butterworth of order n, squared (Lipshitz and Vanderkooy, JAES

@@ -1,6 +1,6 @@
 // @vitest-environment jsdom
 // The whole window with an in-memory host: start-up (demo, recovery, a document from the host),
-// keyboard shortcuts and nudges (issue 3: frequency 1/24 octave, gain 0.1 dB, Q 5 %, more with
+// keyboard shortcuts and nudges (frequency 1/24 octave, gain 0.1 dB, Q 5 %, more with
 // Shift), file commands through the host, and a broken file refused with the reader's message.
 import { flushSync, mount, tick, unmount } from 'svelte';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';

@@ -1,4 +1,4 @@
-// The plot cache recomputes only what an edit changed (issue 3, "Speed"), and what it returns is
+// The plot cache recomputes only what an edit changed (the drag goal of npm run bench:ui), and what it returns is
 // the core's designedResponse for the same plan.
 import { describe, expect, it } from 'vitest';
 import { designPlan } from '../../src/design/chain';

@@ -90,7 +90,7 @@ export function endBandDrag(): void {
   doc.endGesture();
 }
 
-// ---- keyboard nudges (issue 3: frequency 1/24 octave, gain 0.1 dB, Q 5 %; larger with Shift) ----
+// ---- keyboard nudges (frequency 1/24 octave, gain 0.1 dB, Q 5 %; larger with Shift) ----
 
 export function nudgeSelected(what: 'frequency' | 'gain' | 'q', direction: 1 | -1, large: boolean): void {
   const band = selectedBand();
