@@ -6,7 +6,7 @@
  *
  *   npx tsx assets/make-two-way-measured.ts
  *
- * tests/core/demo-measured.test.ts re-runs buildMeasuredDemo() and checks the file is its output.
+ * tests/assets/make-two-way-measured.test.ts re-runs buildMeasuredDemo() and checks the file is its output.
  *
  * Models (docs/references.md, "Measured responses"), evaluated at s = j 2 pi f:
  * - Woofer, closed box: a second-order high-pass s^2 / (s^2 + s wc/Qtc + wc^2) (R. H. Small,

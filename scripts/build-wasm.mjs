@@ -1,6 +1,6 @@
 // Assembles src/response/kernel.wat into src/response/kernel-wasm-bytes.ts (hex text), so the core
 // needs no build step and no loader. `node scripts/build-wasm.mjs --check` fails if the committed
-// bytes differ from a fresh assembly (CI runs it; tests/core runs the same comparison).
+// bytes differ from a fresh assembly (CI runs it; tests/response/kernel-wasm.test.ts runs the same comparison).
 import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';

@@ -1,18 +1,21 @@
 /**
  * Analysis: poles and zeros of designed sections against the bilinear map of the 50-digit
- * prototype poles (prototypes.json), the stability triangle, headroom and the warnings of `check`.
+ * prototype poles (prototypes.json), the stability triangle, headroom, the warnings of `check`, and
+ * an analysis that reuses parts of an earlier one equal to a fresh one.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { analyzePlan } from '../../src/analysis/check';
-import { targetPath } from '../../src/diagnostics';
+import { diagnosticMessage, targetPath } from '../../src/diagnostics';
 import { headroom } from '../../src/analysis/headroom';
 import { isStable, largestPoleRadius, sectionPoles, sectionZeros, type Root } from '../../src/analysis/poles';
 import { designBand } from '../../src/design/cookbook';
 import { designEdge } from '../../src/design/crossover';
-import { readPlanValue } from '../../src/plan/read';
+import { readPlanText, readPlanValue } from '../../src/plan/read';
 import type { BesselNormalization, Plan } from '../../src/plan/types';
 import { kernelAt, loadFixture } from '../helpers/reference';
+import { readFileSync } from 'node:fs';
+import * as edits from '../../src/ui/edits';
 
 interface ProtoCase {
   family: 'butterworth' | 'bessel';
@@ -168,5 +171,78 @@ describe('warnings of check', () => {
     expect(c).toContain('warning:near-nyquist:low');
     expect(c).toContain('warning:near-nyquist:top/x');
     expect(c).toContain('danger:no-high-pass:top');
+  });
+});
+
+/**
+ * The "high-frequency output with no high-pass" warning of `check` (README, the command table:
+ * `check` prints the warnings). A high-pass band of the
+ * output's own chain (the cookbook 2nd-order or the 1st-order high-pass) is a high-pass too; a
+ * disabled one is not, and neither is a high-pass in the shared input chain alone (a tweeter
+ * high-passed by a band must not be flagged "danger").
+ */
+function warnedNoHighPass(tweeterBands: unknown[], inputBands: unknown[] = []): boolean {
+  const r = readPlanValue({
+    format: 'biquadrant.plan',
+    version: 2,
+    name: 'hp',
+    sampleRate: 48000,
+    input: { bands: inputBands },
+    outputs: [
+      { id: 'woofer', lowPass: { family: 'linkwitz-riley', order: 4, frequency: 2000 } },
+      { id: 'tweeter', bands: tweeterBands },
+    ],
+  });
+  if (!r.ok) throw new Error(r.error.message);
+  return analyzePlan(r.plan).warnings.some((w) => w.code === 'no-high-pass' && targetPath(w.target) === 'tweeter');
+}
+
+describe('no-high-pass warning', () => {
+  it('is given for a tweeter with no high-pass at all', () => {
+    expect(warnedNoHighPass([{ id: 'p', type: 'peaking', frequency: 5000, gainDb: -2, q: 1 }])).toBe(true);
+  });
+  it('is not given when the tweeter has its own high-pass band (2nd or 1st order)', () => {
+    expect(warnedNoHighPass([{ id: 'hp', type: 'highPass', frequency: 2000, q: 0.7071 }])).toBe(false);
+    expect(warnedNoHighPass([{ id: 'hp', type: 'highPass1', frequency: 2000 }])).toBe(false);
+  });
+  it('is still given when that band is disabled, or the only high-pass is the shared input chain', () => {
+    expect(warnedNoHighPass([{ id: 'hp', type: 'highPass', frequency: 2000, q: 0.7071, enabled: false }])).toBe(true);
+    expect(warnedNoHighPass([], [{ id: 'sub', type: 'highPass', frequency: 25, q: 0.7071 }])).toBe(true);
+  });
+});
+
+/**
+ * analyzePlan reuses an output's analysis while that output, the input chain and the sample rate
+ * are the same objects (plans are immutable; edits replace what they touch). Whatever it reuses,
+ * the result must equal an analysis from scratch (a structurally equal copy of the plan shares
+ * no objects, so nothing is reused there) after each kind of edit.
+ */
+function plan(): Plan {
+  const r = readPlanText(readFileSync(new URL('../../assets/three-way-hall.bqplan', import.meta.url), 'utf8'));
+  if (!r.ok) throw r.error;
+  return r.plan;
+}
+
+function applied(r: edits.EditResult): Plan {
+  if (!r.ok) throw new Error(diagnosticMessage(r.diagnostic));
+  return r.plan;
+}
+
+const fresh = (p: Plan) => analyzePlan(structuredClone(p));
+
+describe('analyzePlan after edits', () => {
+  it('matches a fresh analysis after a band edit, an input-chain edit and a sample-rate change', () => {
+    const p0 = plan();
+    analyzePlan(p0);
+    const out = p0.outputs[1];
+    // A 6 dB peaking boost in the middle of that output's passband (90 - 800 Hz).
+    const p1 = applied(edits.addBand(p0, out.id, { type: 'peaking', frequency: 300, gainDb: 6, q: 1 }));
+    expect(analyzePlan(p1)).toEqual(fresh(p1));
+    expect(analyzePlan(p1).outputs[1].headroom.peakDb).not.toBeCloseTo(analyzePlan(p0).outputs[1].headroom.peakDb, 3);
+    const inBand = p1.input.bands[0];
+    const p2 = applied(edits.updateBand(p1, edits.INPUT, inBand.id, { gainDb: (inBand.gainDb ?? 0) + 5 }));
+    expect(analyzePlan(p2)).toEqual(fresh(p2));
+    const p3 = applied(edits.validated({ ...p2, sampleRate: 96000 }));
+    expect(analyzePlan(p3)).toEqual(fresh(p3));
   });
 });

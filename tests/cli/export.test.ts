@@ -1,7 +1,8 @@
 /**
  * The command line's export commands through `runCli` (the same code the binary runs): exit codes
  * and messages of cli.md (0 success, 1 invalid plan or input, 2 usage), `export`, `import`,
- * `profiles`, and `response --quantize`.
+ * `profiles`, and `response --quantize`; a profile file with a bare non-finite number; the gain of
+ * the suggested arrangement within the plan's limits.
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -155,5 +156,55 @@ describe('response --quantize', () => {
     const r = runCli(['response', PLAN, '--quantize', 'Q40.1'], io());
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--quantize must be Qm\.n/);
+  });
+});
+
+/**
+ * A profile file (`export --profile FILE`) with a bare NaN or Infinity: not JSON (RFC 8259,
+ * section 6), and the command line (README, "Exit codes") exits 1 with a one-line message naming
+ * the file and the field path.
+ */
+describe('export --profile FILE with a bare non-finite number', () => {
+  for (const token of ['NaN', 'Infinity', '-Infinity']) {
+    it(`${token} in number.fractionBits: exit 1, one line naming the file and the path`, () => {
+      const text = `{ "sectionBudget": 8, "number": { "kind": "fixed", "integerBits": 2, "fractionBits": ${token}, "wordBits": 32 } }`;
+      const r = runCli(['export', PLAN, '--profile', 'board.json'], io({ 'board.json': text }));
+      expect(r.code).toBe(1);
+      expect(r.stdout).toBe('');
+      const lines = r.stderr.trim().split('\n');
+      expect(lines).toHaveLength(1);
+      expect(lines[0]).toContain('board.json');
+      expect(lines[0]).toContain('number.fractionBits');
+      expect(lines[0]).toContain(token);
+    });
+  }
+});
+
+/**
+ * `export --arrange suggested` with a separate gain: the gain takes back the level the scaling
+ * removed, but never past the plan's +/-60 dB output gain (docs/plan-format.md), so the list still
+ * imports as a plan; what it cannot take back is noted. Found by the CLI fuzzer (tests/fuzz).
+ */
+describe('suggested scaling keeps the make-up gain within +/-60 dB', () => {
+  it('an output at +50 dB with a +30 dB peak: gain capped, the shortfall noted, the list imports back', () => {
+    const plan = {
+      format: 'biquadrant.plan',
+      version: 2,
+      name: 'loud (invented)',
+      sampleRate: 48000,
+      input: { bands: [] },
+      outputs: [{ id: 'a', gainDb: 50, bands: [{ id: 'p', type: 'peaking', frequency: 1000, gainDb: 30, q: 2 }] }],
+    };
+    const files = { 'p.bqplan': JSON.stringify(plan) };
+    const exp = runCli(['export', 'p.bqplan', '--arrange', 'suggested', '--format', 'csv'], io(files));
+    expect(exp.code).toBe(0);
+    // +50 dB gain and 30 dB taken out by the scaling: 80 dB wanted, 59.99 dB allowed, 20.01 dB short.
+    expect(exp.stderr).toMatch(/leaves the output 20\.01 dB below the design/);
+    const imp = runCli(['import', 'l.csv', '--profile', 'float'], io({ 'l.csv': exp.stdout }));
+    expect(imp.stderr).toBe('');
+    expect(imp.code).toBe(0);
+    const back = readPlanText(imp.stdout);
+    expect(back.ok).toBe(true);
+    if (back.ok) expect(back.plan.outputs[0].gainDb).toBeCloseTo(59.99, 9);
   });
 });

@@ -1,14 +1,15 @@
 /**
  * The export list's refusals and rules: the section budget (which output, by how many, nothing
  * dropped), the board's sample rate (redesign, or refusal with the field path), the delay limit,
- * and the gain folded into the first section.
+ * the gain folded into the first section, the budget the screen shows (`budgetUse`), and a gain the
+ * number format cannot hold.
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { diagnostic, diagnosticMessage, targetPath } from '../../src/diagnostics';
 import { describe, expect, it } from 'vitest';
 import { designPlan } from '../../src/design/chain';
-import { buildExportList } from '../../src/export/list';
+import { budgetUse, buildExportList } from '../../src/export/list';
 import { BUILT_IN_PROFILES, copyProfile, effectiveOrder, findBuiltInProfile } from '../../src/export/profiles';
 import { readPlanText } from '../../src/plan/read';
 import type { BoardProfile, Plan } from '../../src/plan/types';
@@ -180,5 +181,72 @@ describe('profiles', () => {
     expect(effectiveOrder(p)).toEqual(['a0', 'a1', 'a2', 'b0', 'b1', 'b2']);
     p.order = ['b0', 'b1', 'b2', 'a1', 'a2', 'a0'];
     expect(effectiveOrder(p)).toEqual(['b0', 'b1', 'b2', 'a1', 'a2', 'a0']);
+  });
+});
+
+/**
+ * The section budget on screen counts as the export does: an output whose count equals the
+ * budget exports, one more section is refused, and a folded gain on an output without sections
+ * costs one unity section (docs/plan-format.md, export step 4).
+ */
+describe('budgetUse', () => {
+  it('is what the export refuses: at the budget it exports, one below it is refused naming the export name', () => {
+    const plan = demo('three-way-hall.bqplan');
+    const base = copyProfile(BUILT_IN_PROFILES[0].profile);
+    for (const [i, u] of budgetUse(plan, base).entries()) {
+      const fits = buildExportList(plan, { ...base, sectionBudget: u.used }, plan.outputs[i].id);
+      expect(fits.ok).toBe(true);
+      if (fits.ok) expect(fits.list.outputs[0].sections.length).toBe(u.used);
+      if (u.used > 1) {
+        const over = buildExportList(plan, { ...base, sectionBudget: u.used - 1 }, plan.outputs[i].id);
+        expect(over.ok).toBe(false);
+        if (!over.ok) expect(diagnosticMessage(over.problems[0])).toContain(`output "${u.exportName}" needs ${u.used} sections, 1 more than the board's ${u.used - 1}`);
+      }
+    }
+  });
+
+  it('a folded gain on an output without sections costs one section', () => {
+    const plan = demo('three-way-hall.bqplan');
+    plan.input.bands = [];
+    plan.outputs[0] = { ...plan.outputs[0], highPass: null, lowPass: null, bands: [] };
+    const profile = { ...copyProfile(BUILT_IN_PROFILES[0].profile), gain: 'first-section' as const };
+    expect(budgetUse(plan, profile)[0].used).toBe(1);
+    expect(budgetUse(plan, { ...profile, gain: 'separate' })[0].used).toBe(0);
+  });
+});
+
+/**
+ * A unity gain in Q1.31 saturates (Q1.31 holds -1 .. 1 - 2^-31, a fact of two's-complement
+ * fixed point), even when the coefficients are halved, because the separate gain is not a
+ * coefficient and is never pre-scaled. The export then says plainly what the board must do: the
+ * value to write and the power of two to multiply by after the cascade; the written value times
+ * that factor gives the gain back within one LSB of the format.
+ */
+describe('a gain the number format cannot hold', () => {
+  const plan = demo();
+  const q131 = BUILT_IN_PROFILES.find((b) => b.key === 'q1.31-negated')!.profile;
+
+  it.each([
+    ['as built in', q131],
+    ['with halved coefficients', { ...copyProfile(q131), coefficientScale: 0.5 }],
+  ])('Q1.31 %s: unity gain is flagged and the note says write 0.5, multiply by 2 after the cascade', (_n, profile) => {
+    const l = buildExportList(plan, profile);
+    if (!l.ok) throw new Error(diagnosticMessage(l.problems[0]));
+    expect(l.list.outputs[0].gain.written?.saturation).toBe('high');
+    const note = l.list.notes.map(diagnosticMessage).find((n) => n.startsWith('output "woofer": its gain 1 does not fit Q1.31'));
+    expect(note).toBeDefined();
+    expect(note).toMatch(/write 0\.5 \(1073741824\) and have the board multiply by 2 \(shift left by 1 bit\) after the cascade/);
+    // 0.5 in Q1.31 is 2^30 = 1073741824; times 2 is unity exactly.
+    expect((1073741824 / 2 ** 31) * 2).toBe(1);
+  });
+
+  it('+6 dB (gain 1.995) needs a factor of 2 as well; a gain inside the range gets no note', () => {
+    const p = structuredClone(plan);
+    p.outputs[0].gainDb = 6;
+    p.outputs[1].gainDb = -6;
+    const l = buildExportList(p, q131);
+    if (!l.ok) throw new Error(diagnosticMessage(l.problems[0]));
+    expect(l.list.notes.map(diagnosticMessage).some((n) => /"woofer": its gain 1\.99\d+ does not fit Q1\.31; write 0\.99\d+ .* multiply by 2 /.test(n))).toBe(true);
+    expect(l.list.notes.map(diagnosticMessage).some((n) => n.includes('"tweeter": its gain'))).toBe(false);
   });
 });

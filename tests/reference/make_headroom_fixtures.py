@@ -1,5 +1,5 @@
 #!/usr/bin/env python3
-"""Reference figures for the headroom search and the worst-case peak (tests/core/headroom-*.test.ts).
+"""Reference figures for the headroom search and the worst-case peak (tests/analysis/headroom.test.ts).
 
 Run from the repository root:   python3 tests/reference/make_headroom_fixtures.py
 Writes tests/reference/fixtures/headroom.json (deterministic: sorted keys, Python repr floats).
