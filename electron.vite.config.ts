@@ -32,6 +32,8 @@ export default defineConfig({
   },
   renderer: {
     root: here('./renderer'),
+    // The renderer reaches the core as `$core/...` (DEVELOPERS.md, "Layers"), never `../../src`.
+    resolve: { alias: { $core: here('./src') } },
     plugins: [svelte(existsSync(svelteConfig) ? { configFile: svelteConfig } : {})],
     server: { fs: { allow: [here('.')] } },
     build: {

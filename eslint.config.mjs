@@ -48,6 +48,7 @@ export default tseslint.config(
           patterns: [
             { group: ['electron', 'electron/*', '**/electron/**'], message: `the renderer reaches the host only through renderer/src/host (${why})` },
             { group: NODE_BUILTINS, message: `the renderer runs in a sandbox: no Node APIs (${why})` },
+            { regex: '^(\\.\\.?/)+src(/|$)', message: `the renderer imports the core as '$core/...', not by a relative path to src/ (see DEVELOPERS.md, "Layers")` },
           ],
         },
       ],

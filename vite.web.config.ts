@@ -9,6 +9,8 @@ const root = fileURLToPath(new URL('./renderer', import.meta.url));
 export default defineConfig({
   root,
   base: './',
+  // The renderer reaches the core as `$core/...` (DEVELOPERS.md, "Layers").
+  resolve: { alias: { $core: fileURLToPath(new URL('./src', import.meta.url)) } },
   plugins: [svelte({ configFile: fileURLToPath(new URL('./renderer/svelte.config.js', import.meta.url)) })],
   server: { host: '127.0.0.1', fs: { allow: [fileURLToPath(new URL('.', import.meta.url))] } },
   preview: { host: '127.0.0.1', port: 5178, strictPort: true },

@@ -7,8 +7,12 @@ import { defineConfig } from 'vitest/config';
 // the Svelte plugin compiles the renderer's components for them.
 export default defineConfig({
   plugins: [svelte({ configFile: fileURLToPath(new URL('./renderer/svelte.config.js', import.meta.url)) })],
-  // Svelte's client runtime (mount, effects) rather than its server build, for the component tests.
-  resolve: process.env.VITEST ? { conditions: ['browser'] } : undefined,
+  resolve: {
+    // The renderer reaches the core as `$core/...` (DEVELOPERS.md, "Layers").
+    alias: { $core: fileURLToPath(new URL('./src', import.meta.url)) },
+    // Svelte's client runtime (mount, effects) rather than its server build, for the component tests.
+    ...(process.env.VITEST ? { conditions: ['browser'] } : {}),
+  },
   test: {
     include: ['tests/**/*.test.ts'],
     exclude: ['tests/e2e/**', 'node_modules/**'],

@@ -2,7 +2,7 @@
  * The import graph (DEVELOPERS.md, "Layers"): no module imports itself back through others, the
  * core's folders form no loop (plan below design, analysis below ui), nothing in the core but
  * src/ui and src/node imports src/ui, and src/ui holds only modules the renderer uses. Relative
- * imports are read from the sources (type-only imports count: they tie the modules together just
+ * imports and the renderer's `$core/...` imports are read from the sources (type-only imports count: they tie the modules together just
  * as much for a reader).
  */
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
@@ -22,20 +22,21 @@ function files(dir: string): string[] {
 }
 
 function resolveImport(from: string, spec: string): string | null {
-  const base = resolve(dirname(from), spec);
+  // `$core/...` is the renderer's alias for src/ (vite configs, renderer/tsconfig.json).
+  const base = spec.startsWith('$core/') ? join(ROOT, 'src', spec.slice('$core/'.length)) : resolve(dirname(from), spec);
   for (const candidate of [base, `${base}.ts`, `${base}.svelte.ts`, join(base, 'index.ts')]) {
     if (existsSync(candidate) && statSync(candidate).isFile()) return candidate;
   }
   return null;
 }
 
-/** module -> the modules it imports (relative specifiers only; packages are leaves). */
+/** module -> the modules it imports (relative and `$core/` specifiers; packages are leaves). */
 function graph(dirs: string[]): Map<string, string[]> {
   const g = new Map<string, string[]>();
   for (const d of dirs) {
     for (const f of files(join(ROOT, d))) {
       const text = readFileSync(f, 'utf8');
-      const specs = [...text.matchAll(/(?:^|\n)\s*(?:import|export)\s[^;]*?from\s+['"](\.[^'"]+)['"]/g)].map((m) => m[1]);
+      const specs = [...text.matchAll(/(?:^|\n)\s*(?:import|export)\s[^;]*?from\s+['"](\.[^'"]+|\$core\/[^'"]+)['"]/g)].map((m) => m[1]);
       g.set(
         relative(ROOT, f),
         specs.map((s) => resolveImport(f, s)).filter((x): x is string => x !== null).map((x) => relative(ROOT, x)),

@@ -8,7 +8,7 @@
  * (phase difference, measurements). The sum is the widest line, in the text colour, beneath the
  * outputs: where one output is all there is, the sum equals it and would hide it if on top.
  */
-import type { Response } from '../../../src/response/chain-response';
+import type { Response } from '$core/response/chain-response';
 import { inkOn } from '../lib/palette';
 import { attachGestures, type DragDelta } from './gestures';
 import { valueAt } from './mapping';

@@ -4,7 +4,7 @@
  * log frequency ticks and theme colours.
  */
 import { Chart, LineController, LineElement, LinearScale, LogarithmicScale, PointElement, type Scale } from 'chart.js';
-import { formatFrequencyShort } from '../../../src/ui/units';
+import { formatFrequencyShort } from '$core/ui/units';
 import { cssColor } from '../lib/palette';
 
 Chart.register(LineController, LineElement, PointElement, LinearScale, LogarithmicScale);

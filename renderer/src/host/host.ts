@@ -4,10 +4,10 @@
  * back to a file picker, the browser's save dialog with a file handle where it has one
  * (`showSaveFilePicker`) or else a download, local storage and the clipboard API.
  */
-import type { DesktopApi, HostResult, MenuCommand, PlanDocument } from '../../../src/ipc';
-import { readPlanText } from '../../../src/plan/read';
-import { writePlanText } from '../../../src/plan/write';
-import type { Plan } from '../../../src/plan/types';
+import type { DesktopApi, HostResult, MenuCommand, PlanDocument } from '$core/ipc';
+import { readPlanText } from '$core/plan/read';
+import { writePlanText } from '$core/plan/write';
+import type { Plan } from '$core/plan/types';
 
 declare global {
   interface Window {

@@ -6,10 +6,10 @@
  * is interpolated once per grid, a prediction is redone only when its chain response, its
  * measurement or its offset changed.
  */
-import { acousticOffsetMs, interpolateMeasurement, measurementResponse, predictedFromChain, type InterpolatedMeasurement } from '../../../src/measure/acoustic';
-import { DEFAULT_AIR_TEMPERATURE_C, type Measurement, type Output } from '../../../src/plan/types';
-import { sumResponses, type Response } from '../../../src/response/chain-response';
-import { normalizedOmega } from '../../../src/response/kernel';
+import { acousticOffsetMs, interpolateMeasurement, measurementResponse, predictedFromChain, type InterpolatedMeasurement } from '$core/measure/acoustic';
+import { DEFAULT_AIR_TEMPERATURE_C, type Measurement, type Output } from '$core/plan/types';
+import { sumResponses, type Response } from '$core/response/chain-response';
+import { normalizedOmega } from '$core/response/kernel';
 import type { PlanFrame } from './response-cache';
 
 export interface AcousticCurve {

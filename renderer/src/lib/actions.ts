@@ -3,14 +3,14 @@
  * commands through the host adapter. Components and keyboard shortcuts call these; each edit
  * goes through the plan reader (src/ui/edits) and the document's undo history.
  */
-import { DRAG_TOP_FRACTION } from '../../../src/analysis/thresholds';
-import { BAND_PARAMETERS, DEFAULT_Q } from '../../../src/design/cookbook';
-import type { Band, Plan } from '../../../src/plan/types';
-import type { PlanDocument } from '../../../src/ipc';
+import { DRAG_TOP_FRACTION } from '$core/analysis/thresholds';
+import { BAND_PARAMETERS, DEFAULT_Q } from '$core/design/cookbook';
+import type { Band, Plan } from '$core/plan/types';
+import type { PlanDocument } from '$core/ipc';
 import { tick } from 'svelte';
-import * as edits from '../../../src/ui/edits';
-import { INPUT, type ChainRef } from '../../../src/ui/edits';
-import { roundFrequency, roundGain, roundQ } from '../../../src/ui/units';
+import * as edits from '$core/ui/edits';
+import { INPUT, type ChainRef } from '$core/ui/edits';
+import { roundFrequency, roundGain, roundQ } from '$core/ui/units';
 import type { Host } from '../host/host';
 import { BAND_TYPE_LABEL } from './labels';
 import { diagnosticText } from './diagnostics';

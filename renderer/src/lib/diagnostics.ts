@@ -4,10 +4,10 @@
  * The command line words the same diagnostics with ids and field paths; nothing here reads a
  * sentence back.
  */
-import { gainScalingText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '../../../src/diagnostics';
-import type { Plan } from '../../../src/plan/types';
-import { formatFrequency as fmtHz } from '../../../src/ui/units';
-import { dbText, peakPlaceText } from '../../../src/format';
+import { gainScalingText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '$core/diagnostics';
+import type { Plan } from '$core/plan/types';
+import { formatFrequency as fmtHz } from '$core/ui/units';
+import { dbText, peakPlaceText } from '$core/format';
 
 function outputName(plan: Plan, id: string): string {
   return plan.outputs.find((o) => o.id === id)?.name ?? id;

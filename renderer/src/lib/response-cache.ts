@@ -4,11 +4,11 @@
  * replaces that output (and the plan), so only that output and the sum are recomputed; an
  * input-chain edit replaces `plan.input`, so every output is.
  */
-import { designBand } from '../../../src/design/cookbook';
-import { designInput, designOutput, type DesignedOutput, type SourcedSection } from '../../../src/design/chain';
-import { cascadeWithGainDelay, outputResponse, sumResponses, type Response } from '../../../src/response/chain-response';
-import { normalizedOmega } from '../../../src/response/kernel';
-import type { Band, Output, Plan } from '../../../src/plan/types';
+import { designBand } from '$core/design/cookbook';
+import { designInput, designOutput, type DesignedOutput, type SourcedSection } from '$core/design/chain';
+import { cascadeWithGainDelay, outputResponse, sumResponses, type Response } from '$core/response/chain-response';
+import { normalizedOmega } from '$core/response/kernel';
+import type { Band, Output, Plan } from '$core/plan/types';
 
 export interface OutputCurve {
   output: Output;

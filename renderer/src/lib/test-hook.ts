@@ -9,7 +9,7 @@
  * and the code that feeds it are dropped from the bundle (tests/renderer/test-hook-build.test.ts
  * checks a built bundle).
  */
-import type { Plan } from '../../../src/plan/types';
+import type { Plan } from '$core/plan/types';
 import type { CacheStats } from './response-cache';
 
 export interface PlottedCurve {

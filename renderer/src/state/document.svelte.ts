@@ -4,11 +4,11 @@
  * shares what it did not touch, so the history is a list of references and "dirty" is an
  * identity check against the last saved plan.
  */
-import type { Diagnostic } from '../../../src/diagnostics';
-import type { Plan } from '../../../src/plan/types';
-import type { EditResult } from '../../../src/ui/edits';
-import { freshPlan } from '../../../src/ui/edits';
-import { planToJson } from '../../../src/plan/write';
+import type { Diagnostic } from '$core/diagnostics';
+import type { Plan } from '$core/plan/types';
+import type { EditResult } from '$core/ui/edits';
+import { freshPlan } from '$core/ui/edits';
+import { planToJson } from '$core/plan/write';
 
 /** The plan as its file would hold it: two plans with the same text are the same document. */
 const textOf = new WeakMap<Plan, string>();

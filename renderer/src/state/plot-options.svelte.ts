@@ -3,7 +3,7 @@
  * the snapshot drawn as ghosts, the two outputs whose phase difference is drawn, the group-delay
  * range, and the Z-plane and Time windows.
  */
-import type { Plan } from '../../../src/plan/types';
+import type { Plan } from '$core/plan/types';
 
 export class PlotOptions {
   #hidden = $state.raw<ReadonlySet<string>>(new Set());

@@ -2,8 +2,8 @@
  * What the user is looking at (not saved in the plan): the view, the selected chain and band,
  * the frequency window, plot options, solo, and the one-line notice.
  */
-import type { Plan } from '../../../src/plan/types';
-import { INPUT, type ChainRef } from '../../../src/ui/edits';
+import type { Plan } from '$core/plan/types';
+import { INPUT, type ChainRef } from '$core/ui/edits';
 
 export type ViewName = 'response' | 'zplane' | 'time' | 'export';
 export type PhaseMode = 'wrapped' | 'unwrapped';
