@@ -2,6 +2,8 @@
  * Text from a file, as an error message may show it. A file that is not what it claims (an image,
  * an archive, a document renamed to .bqplan) holds control characters and undecodable bytes; an
  * error must say where the problem is and what kind of file it looks like, never print those bytes.
+ * Where a JSON text breaks (line and column) is `parseJsonText` in json.ts, which calls
+ * `junkTextProblem` first.
  */
 
 /** True when `text` looks like binary data rather than text (NUL, other control characters, U+FFFD). */
@@ -15,31 +17,6 @@ export function looksBinary(text: string): boolean {
 export function shownToken(token: string, max = 24): string {
   if (looksBinary(token) || /[\u007f-\u009f]/.test(token)) return 'unreadable characters';
   return JSON.stringify(token.length > max ? `${token.slice(0, max)}...` : token);
-}
-
-/** Line and column (1-based) of a character offset. */
-export function lineColumn(text: string, offset: number): { line: number; column: number } {
-  const before = text.slice(0, Math.max(0, Math.min(offset, text.length)));
-  const lines = before.split('\n');
-  return { line: lines.length, column: lines[lines.length - 1].length + 1 };
-}
-
-/**
- * Why `JSON.parse` refused `text`, in words of our own and with a line and column, never quoting
- * the text (engines' messages quote a slice of it, bytes included).
- */
-export function jsonProblem(text: string, error: unknown): string {
-  const junk = junkTextProblem(text);
-  if (junk) return junk;
-  const message = error instanceof Error ? error.message : '';
-  const pos = /position (\d+)/.exec(message);
-  if (pos && Number(pos[1]) >= text.trimEnd().length) return 'not valid JSON: the text ends before the JSON does (a cut-off file?)';
-  if (pos) {
-    const { line, column } = lineColumn(text, Number(pos[1]));
-    return `not valid JSON: unexpected text at line ${line}, column ${column}`;
-  }
-  if (/end of (JSON )?input|unterminated/i.test(message)) return 'not valid JSON: the text ends before the JSON does (a cut-off file?)';
-  return 'not valid JSON';
 }
 
 /**

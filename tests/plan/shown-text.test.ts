@@ -8,7 +8,8 @@ import { describe, expect, it } from 'vitest';
 import { parseCoefficientList } from '../../src/export/import';
 import { BUILT_IN_PROFILES } from '../../src/export/profiles';
 import { readPlanText } from '../../src/plan/read';
-import { jsonProblem, shownToken } from '../../src/plan/shown-text';
+import { parseJsonText } from '../../src/plan/json';
+import { shownToken } from '../../src/plan/shown-text';
 
 // A PNG signature and IHDR start as a text decoder with replacement would hand them over.
 const PNG = new TextDecoder('utf-8').decode(new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]));
@@ -37,8 +38,12 @@ describe('junk files in error text', () => {
   });
 
   it('text that is not JSON at all, and an empty file', () => {
-    expect(jsonProblem('hello there', new SyntaxError('x'))).toBe('not valid JSON: it does not start with "{"');
-    expect(jsonProblem('  \n', new SyntaxError('x'))).toBe('the file is empty');
+    const problem = (text: string) => {
+      const r = parseJsonText(text);
+      return r.ok ? null : { path: r.error.path, message: r.error.message };
+    };
+    expect(problem('hello there')).toEqual({ path: '', message: 'not valid JSON: it does not start with "{"' });
+    expect(problem('  \n')).toEqual({ path: '', message: 'the file is empty' });
   });
 
   it('an imported list with junk tokens names no raw bytes', () => {
