@@ -212,12 +212,14 @@ function calmFactor(s: number, c: number, d: number): boolean {
   // at u = 1 or at its vertex; kappa is taken there (at u = 0 it is 1: F = S).
   const q2 = c * c - d * d;
   const q1 = 2 * (d * d - s * c);
-  let kappa = (Math.abs(s) + Math.abs(c) + Math.abs(d)) / Math.hypot(s - c, d);
+  let kappa = (Math.abs(s) + Math.abs(c) + Math.abs(d)) / Math.sqrt((s - c) * (s - c) + d * d);
   if (q2 > 0) {
     const u = -q1 / (2 * q2);
     if (u > 0 && u < 1) {
       const sin = Math.sqrt(u * (2 - u));
-      kappa = Math.max(kappa, (Math.abs(s) + Math.abs(c) * u + Math.abs(d) * sin) / Math.hypot(s - c * u, d * sin));
+      const r = s - c * u;
+      const i = d * sin;
+      kappa = Math.max(kappa, (Math.abs(s) + Math.abs(c) * u + Math.abs(d) * sin) / Math.sqrt(r * r + i * i));
     }
   }
   return kappa <= PAIR_KAPPA;
@@ -228,15 +230,18 @@ let factorScratch = new Float64Array(0);
 let orderScratch = new Int32Array(0);
 
 /**
- * Pairs one chain (numerators or denominators) of one side: writes `order` as the factor indices
- * of pair m at 2m and 2m + 1 (-1 for the factor 1) and returns the number of pairs. Calm factors
- * are paired in their order, the others each with 1.
+ * Pairs one chain (numerators or denominators) of one side: writes `order` (3 x count long) as the
+ * factor indices of pair m at 2m and 2m + 1 (-1 for the factor 1) and returns the number of pairs.
+ * Calm factors are paired in their order, the others each with 1.
  */
 function pairFactors(f: Float64Array, count: number, order: Int32Array): number {
   let m = 0;
   let open = -1;
+  let sharp = 0;
   for (let k = 0; k < count; k++) {
-    if (calmFactor(f[3 * k], f[3 * k + 1], f[3 * k + 2])) {
+    if (!calmFactor(f[3 * k], f[3 * k + 1], f[3 * k + 2])) {
+      order[2 * count + sharp++] = k; // set aside after the pairs' room
+    } else {
       if (open < 0) open = k;
       else {
         order[2 * m] = open;
@@ -251,12 +256,10 @@ function pairFactors(f: Float64Array, count: number, order: Int32Array): number 
     order[2 * m + 1] = -1;
     m++;
   }
-  for (let k = 0; k < count; k++) {
-    if (!calmFactor(f[3 * k], f[3 * k + 1], f[3 * k + 2])) {
-      order[2 * m] = k;
-      order[2 * m + 1] = -1;
-      m++;
-    }
+  for (let j = 0; j < sharp; j++) {
+    order[2 * m] = order[2 * count + j];
+    order[2 * m + 1] = -1;
+    m++;
   }
   return m;
 }
@@ -296,11 +299,11 @@ export function expandSections(packed: Float64Array, sectionCount: number, into:
   const n = sectionCount;
   const setSize = n * K_STRIDE * lanes;
   if (factorScratch.length < 6 * n) factorScratch = new Float64Array(6 * n);
-  if (orderScratch.length < 4 * n) orderScratch = new Int32Array(4 * n);
+  if (orderScratch.length < 6 * n) orderScratch = new Int32Array(6 * n);
   const fN = factorScratch.subarray(0, 3 * n);
   const fD = factorScratch.subarray(3 * n, 6 * n);
-  const oN = orderScratch.subarray(0, 2 * n);
-  const oD = orderScratch.subarray(2 * n, 4 * n);
+  const oN = orderScratch.subarray(0, 3 * n);
+  const oD = orderScratch.subarray(3 * n, 6 * n);
   for (let side = 0; side < 2; side++) {
     const sign = side === 0 ? 1 : -1;
     for (let k = 0; k < n; k++) {
