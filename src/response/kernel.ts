@@ -16,8 +16,8 @@
  *
  * and D(e^{jt}) = e^{-jt} G(t) likewise with (1, a1, a2). The factors e^{-jt} cancel in N / D, so
  * H = prod F_k / prod G_k. The kernel carries the two products and their derivatives as dual
- * numbers, P <- P F, P' <- P' F + P F' (the product rule: no division per section), and at the end
- * of each point divides once:
+ * numbers, P <- P F, P' <- P' F + P F' (the product rule: no division per section), taking the
+ * factors two at a time (see "Pairs of sections" below), and at the end of each point divides once:
  *
  *     H = PF / PG,   d ln H / dt = PF'/PF - PG'/PG,   tau = -Im d ln H/dt,  slope = Re d ln H/dt.
  *
@@ -153,11 +153,30 @@ function copyPresented(c: ComplexResponse, n: number, out: KernelOutput): void {
  * u = 1 - cos t = 2 sin^2(t/2) computed directly. In F above only b0 + b1 + b2 depends on the side;
  * it is summed with error-free transformations, so F(0) is exact to rounding when the coefficients
  * put a zero at z = 1.
- * Constants per section and side (the "+" set for |w| <= pi/2, the "-" set with b1, a1 negated),
- * K_STRIDE numbers: b0 + b1 + b2, b0 + b2, b0 - b2, then 1 + a1 + a2, 1 + a2, 1 - a2.
+ * Per factor and side (the "+" set for |w| <= pi/2, the "-" set with b1, a1 negated):
+ * S = b0 + b1 + b2, C = b0 + b2, D = b0 - b2 (and 1 + a1 + a2, 1 + a2, 1 - a2).
+ *
+ * Pairs of sections. The loop takes two numerator factors (and two denominator factors) at a
+ * time: with s^2 = sin^2 t = u (2 - u), the product of F1 = S1 - C1 u + j D1 s and F2 is
+ *
+ *     F1 F2 = A0 + A1 u + A2 u^2  +  j s (B0 + B1 u),
+ *     A0 = S1 S2,  A1 = -(S1 C2 + C1 S2 + 2 D1 D2),  A2 = C1 C2 + D1 D2,
+ *     B0 = S1 D2 + S2 D1,  B1 = -(C1 D2 + C2 D1),
+ *
+ * and its derivative (du/dt = sin t, d sin t/dt = cos t) s (A1 + 2 A2 u) + j (cos t B + B1 s^2):
+ * seven multiplications per pair where the two factors apart take eight, and one dual product
+ * update (twelve) instead of two. F(0) stays exact to rounding (A0 = S1 S2), and a factor with
+ * D = 0 or S = 0 keeps its exact zeros in the pair. The pair's rounding is about kappa1 kappa2
+ * ulps of |F1 F2| against kappa1 + kappa2 apart (kappa: the factor's condition number in this
+ * form), so only calm factors are paired (`calmFactor`); an odd one out is paired with 1
+ * (S = 1, C = D = 0).
+ * Constants per pair and side, K_STRIDE numbers: A0 A1 A2 B0 B1 of the numerator pair, then of
+ * the denominator pair.
  */
-/** Numbers per section in an expanded constant set. */
-export const K_STRIDE = 6;
+/** Numbers per pair in an expanded constant set: A0 A1 A2 B0 B1 of N, then of D. */
+export const K_STRIDE = 10;
+/** Per-point inputs: u = 1 - cos t, sin t, cos t, sin^2 t. */
+const POINT_INPUTS = 4;
 const HALF_PI = Math.PI / 2;
 /** |P|^2 outside [RESCALE_LOW, RESCALE_HIGH] is rescaled by 2^-/+RESCALE_BITS (|P|^2 by 2^-/+(2 RESCALE_BITS) = 1e-/+100). */
 const RESCALE_LOW = 1e-100;
@@ -180,37 +199,134 @@ function sum3(a: number, b: number, c: number): number {
 }
 
 /**
- * Expands packed sections into the kernel's two constant sets, "+" then "-", each K_STRIDE
- * numbers per section, every number written `lanes` times in a row.
+ * A factor (S, C, D) is paired only if its evaluation is well conditioned on the whole half
+ * circle: kappa = (|S| + |C| u + |D| |sin t|) / |F| at most PAIR_KAPPA where |F| is smallest. The
+ * pair's rounding error is about kappa1 kappa2 ulps against kappa1 + kappa2 for the two apart, so
+ * two calm factors lose nothing that matters (at most 1024 ulps x |F1 F2|, below 3e-13), while a
+ * zero or pole next to the unit circle (a notch, a high-Q band) keeps its own slot, paired with 1.
  */
-export function expandSections(packed: Float64Array, sectionCount: number, into: Float64Array, offset = 0, lanes = 1): void {
-  const setSize = sectionCount * K_STRIDE * lanes;
-  for (let k = 0; k < sectionCount; k++) {
-    const o = k * SECTION_STRIDE;
-    const b0 = packed[o];
-    const b1 = packed[o + 1];
-    const b2 = packed[o + 2];
-    const a1 = packed[o + 3];
-    const a2 = packed[o + 4];
-    const c = b0 + b2;
-    const d = b0 - b2;
-    const cd = 1 + a2;
-    const dd = 1 - a2;
-    const sp = sum3(b0, b1, b2);
-    const sm = sum3(b0, -b1, b2);
-    const qp = sum3(1, a1, a2);
-    const qm = sum3(1, -a1, a2);
-    for (let side = 0; side < 2; side++) {
-      const base = offset + side * setSize + k * K_STRIDE * lanes;
-      for (let l = 0; l < lanes; l++) {
-        into[base + l] = side === 0 ? sp : sm;
-        into[base + lanes + l] = c;
-        into[base + 2 * lanes + l] = d;
-        into[base + 3 * lanes + l] = side === 0 ? qp : qm;
-        into[base + 4 * lanes + l] = cd;
-        into[base + 5 * lanes + l] = dd;
+const PAIR_KAPPA = 32;
+
+function calmFactor(s: number, c: number, d: number): boolean {
+  // |F|^2 = (S - C u)^2 + D^2 u (2 - u) on u = 1 - cos t in [0, 1], a quadratic in u, is smallest
+  // at u = 1 or at its vertex; kappa is taken there (at u = 0 it is 1: F = S).
+  const q2 = c * c - d * d;
+  const q1 = 2 * (d * d - s * c);
+  let kappa = (Math.abs(s) + Math.abs(c) + Math.abs(d)) / Math.sqrt((s - c) * (s - c) + d * d);
+  if (q2 > 0) {
+    const u = -q1 / (2 * q2);
+    if (u > 0 && u < 1) {
+      const sin = Math.sqrt(u * (2 - u));
+      const r = s - c * u;
+      const i = d * sin;
+      kappa = Math.max(kappa, (Math.abs(s) + Math.abs(c) * u + Math.abs(d) * sin) / Math.sqrt(r * r + i * i));
+    }
+  }
+  return kappa <= PAIR_KAPPA;
+}
+
+/** Factors of one side and chain: S C D each (scratch, grown as needed), and the pairing order. */
+let factorScratch = new Float64Array(0);
+let orderScratch = new Int32Array(0);
+
+/**
+ * Pairs one chain (numerators or denominators) of one side: writes `order` (3 x count long) as the
+ * factor indices of pair m at 2m and 2m + 1 (-1 for the factor 1) and returns the number of pairs.
+ * Calm factors are paired in their order, the others each with 1.
+ */
+function pairFactors(f: Float64Array, count: number, order: Int32Array): number {
+  let m = 0;
+  let open = -1;
+  let sharp = 0;
+  for (let k = 0; k < count; k++) {
+    if (!calmFactor(f[3 * k], f[3 * k + 1], f[3 * k + 2])) {
+      order[2 * count + sharp++] = k; // set aside after the pairs' room
+    } else {
+      if (open < 0) open = k;
+      else {
+        order[2 * m] = open;
+        order[2 * m + 1] = k;
+        m++;
+        open = -1;
       }
     }
+  }
+  if (open >= 0) {
+    order[2 * m] = open;
+    order[2 * m + 1] = -1;
+    m++;
+  }
+  for (let j = 0; j < sharp; j++) {
+    order[2 * m] = order[2 * count + j];
+    order[2 * m + 1] = -1;
+    m++;
+  }
+  return m;
+}
+
+/**
+ * Writes the pair coefficients of F1 F2 (see "Pairs of sections") for factors i and j of `f`
+ * (j = -1: the factor 1; i = -1 too: the pair 1) at into[at], into[at + lanes], ... (each `lanes`
+ * times).
+ */
+function writePair(into: Float64Array, at: number, lanes: number, f: Float64Array, i: number, j: number): void {
+  const s1 = i < 0 ? 1 : f[3 * i];
+  const c1 = i < 0 ? 0 : f[3 * i + 1];
+  const d1 = i < 0 ? 0 : f[3 * i + 2];
+  const s2 = j < 0 ? 1 : f[3 * j];
+  const c2 = j < 0 ? 0 : f[3 * j + 1];
+  const d2 = j < 0 ? 0 : f[3 * j + 2];
+  const a0 = s1 * s2;
+  const a1 = -(s1 * c2 + c1 * s2 + 2 * d1 * d2);
+  const a2 = c1 * c2 + d1 * d2;
+  const b0 = s1 * d2 + s2 * d1;
+  const b1 = -(c1 * d2 + c2 * d1);
+  for (let l = 0; l < lanes; l++) {
+    into[at + l] = a0;
+    into[at + lanes + l] = a1;
+    into[at + 2 * lanes + l] = a2;
+    into[at + 3 * lanes + l] = b0;
+    into[at + 4 * lanes + l] = b1;
+  }
+}
+
+/**
+ * Expands packed sections into the kernel's two constant sets, "+" then "-", each with room for
+ * `sectionCount` pairs of K_STRIDE numbers (a numerator pair, then a denominator pair), every
+ * number written `lanes` times in a row. Returns the pair counts of the two sides in `pairs`.
+ */
+export function expandSections(packed: Float64Array, sectionCount: number, into: Float64Array, offset: number, lanes: number, pairs: Int32Array): void {
+  const n = sectionCount;
+  const setSize = n * K_STRIDE * lanes;
+  if (factorScratch.length < 6 * n) factorScratch = new Float64Array(6 * n);
+  if (orderScratch.length < 6 * n) orderScratch = new Int32Array(6 * n);
+  const fN = factorScratch.subarray(0, 3 * n);
+  const fD = factorScratch.subarray(3 * n, 6 * n);
+  const oN = orderScratch.subarray(0, 3 * n);
+  const oD = orderScratch.subarray(3 * n, 6 * n);
+  for (let side = 0; side < 2; side++) {
+    const sign = side === 0 ? 1 : -1;
+    for (let k = 0; k < n; k++) {
+      const o = k * SECTION_STRIDE;
+      const b0 = packed[o];
+      const b2 = packed[o + 2];
+      const a2 = packed[o + 4];
+      fN[3 * k] = sum3(b0, sign * packed[o + 1], b2);
+      fN[3 * k + 1] = b0 + b2;
+      fN[3 * k + 2] = b0 - b2;
+      fD[3 * k] = sum3(1, sign * packed[o + 3], a2);
+      fD[3 * k + 1] = 1 + a2;
+      fD[3 * k + 2] = 1 - a2;
+    }
+    const mN = pairFactors(fN, n, oN);
+    const mD = pairFactors(fD, n, oD);
+    const m = Math.max(mN, mD);
+    for (let p = 0; p < m; p++) {
+      const base = offset + side * setSize + p * K_STRIDE * lanes;
+      writePair(into, base, lanes, fN, p < mN ? oN[2 * p] : -1, p < mN ? oN[2 * p + 1] : -1);
+      writePair(into, base + 5 * lanes, lanes, fD, p < mD ? oD[2 * p] : -1, p < mD ? oD[2 * p + 1] : -1);
+    }
+    pairs[side] = m;
   }
 }
 
@@ -234,9 +350,11 @@ function reduce(w: number): number {
 function pointInputs(t: number, into: Float64Array, at: number, stride: number): void {
   const h = Math.sin(t / 2);
   const u = 2 * h * h;
+  const s = 2 * h * Math.sqrt(1 - h * h);
   into[at] = u;
-  into[at + stride] = 2 * h * Math.sqrt(1 - h * h);
+  into[at + stride] = s;
   into[at + 2 * stride] = 1 - u;
+  into[at + 3 * stride] = s * s;
 }
 
 /** Folds 2^log2Scale into (re, im) where the result stays inside 2^-FOLD_BITS .. 2^FOLD_BITS. */
@@ -254,20 +372,22 @@ function foldScale(out: ComplexResponse, i: number): void {
 }
 
 let jsScratch = new Float64Array(0);
-const jsPoint = new Float64Array(3);
+const jsPoint = new Float64Array(POINT_INPUTS);
+/** Pair counts of the "+" and "-" constant sets of the last expansion. */
+const pairsScratch = new Int32Array(2);
 
 /** The plain JavaScript kernel: the WebAssembly loop's arithmetic in the same order, one point at a time. */
 export function cascadeComplexJs(packed: Float64Array, sectionCount: number, omega: Float64Array, out: ComplexResponse): void {
   const setSize = sectionCount * K_STRIDE;
   if (jsScratch.length < 2 * setSize) jsScratch = new Float64Array(2 * setSize);
   const K = jsScratch;
-  expandSections(packed, sectionCount, K);
+  expandSections(packed, sectionCount, K, 0, 1, pairsScratch);
   const points = omega.length;
   for (let i = 0; i < points; i++) {
     const r = reduce(omega[i]);
     const mirrored = r > 2;
     pointInputs(mirrored ? r - 4 : r, jsPoint, 0, 1);
-    evaluatePoint(K, mirrored ? setSize : 0, sectionCount, jsPoint[0], jsPoint[1], jsPoint[2], out, i);
+    evaluatePoint(K, mirrored ? setSize : 0, pairsScratch[mirrored ? 1 : 0], jsPoint[0], jsPoint[1], jsPoint[2], jsPoint[3], out, i);
     foldScale(out, i);
   }
 }
@@ -276,7 +396,7 @@ export function cascadeComplexJs(packed: Float64Array, sectionCount: number, ome
  * One point of the section loop (kernel.wat does the same two points at a time): the dual
  * products (pr + j pi, qr + j qi) = (PF, PF') and (gr + j gi, hr + j hi) = (PG, PG').
  */
-function evaluatePoint(K: Float64Array, o0: number, sectionCount: number, u: number, s: number, cw: number, out: ComplexResponse, i: number): void {
+function evaluatePoint(K: Float64Array, o0: number, pairs: number, u: number, s: number, cw: number, s2: number, out: ComplexResponse, i: number): void {
   let pr = 1;
   let pi = 0;
   let qr = 0;
@@ -287,32 +407,40 @@ function evaluatePoint(K: Float64Array, o0: number, sectionCount: number, u: num
   let hi = 0;
   let countP = 0;
   let countG = 0;
-  for (let k = 0, o = o0; k < sectionCount; k++, o += K_STRIDE) {
-    // F = a + j b, F' = -cs + j bp
-    const a = K[o] - K[o + 1] * u;
-    const b = K[o + 2] * s;
-    const cs = K[o + 1] * s;
-    const bp = K[o + 2] * cw;
-    const qr1 = qr * a - qi * b - (pr * cs + pi * bp);
-    const qi1 = qr * b + qi * a + (pr * bp - pi * cs);
+  for (let k = 0, o = o0; k < pairs; k++, o += K_STRIDE) {
+    // F = a + j b, F' = cs + j bp of the numerator pair (A0 A1 A2 B0 B1 at o)
+    let w = K[o + 2] * u;
+    let c = K[o + 1];
+    const a = K[o] + u * (c + w);
+    const cs = s * (c + (w + w));
+    c = K[o + 4];
+    w = K[o + 3] + c * u;
+    const b = s * w;
+    const bp = cw * w + c * s2;
+    const qr1 = qr * a - qi * b + (pr * cs - pi * bp);
+    const qi1 = qr * b + qi * a + (pr * bp + pi * cs);
     const pr1 = pr * a - pi * b;
     pi = pr * b + pi * a;
     pr = pr1;
     qr = qr1;
     qi = qi1;
-    // G likewise with the denominator's constants.
-    const ad = K[o + 3] - K[o + 4] * u;
-    const bd = K[o + 5] * s;
-    const csd = K[o + 4] * s;
-    const bpd = K[o + 5] * cw;
-    const hr1 = hr * ad - hi * bd - (gr * csd + gi * bpd);
-    const hi1 = hr * bd + hi * ad + (gr * bpd - gi * csd);
+    // G likewise with the denominator pair's constants.
+    w = K[o + 7] * u;
+    c = K[o + 6];
+    const ad = K[o + 5] + u * (c + w);
+    const csd = s * (c + (w + w));
+    c = K[o + 9];
+    w = K[o + 8] + c * u;
+    const bd = s * w;
+    const bpd = cw * w + c * s2;
+    const hr1 = hr * ad - hi * bd + (gr * csd - gi * bpd);
+    const hi1 = hr * bd + hi * ad + (gr * bpd + gi * csd);
     const gr1 = gr * ad - gi * bd;
     gi = gr * bd + gi * ad;
     gr = gr1;
     hr = hr1;
     hi = hi1;
-    if ((k & 3) === 3) {
+    if ((k & 1) === 1) {
       const sp = rescaleStep(pr * pr + pi * pi);
       if (sp !== 0) {
         const f = sp > 0 ? RESCALE_DOWN : RESCALE_UP;
@@ -425,8 +553,8 @@ export function wasmKernel(): WasmKernel | null {
 
 const WASM_PAGE = 65536;
 const WASM_MIN_POINTS = 32;
-/** Arrays per point in a grid's block of kernel memory: 3 inputs (u, sin t, cos t), 5 outputs. */
-const GRID_ARRAYS = 8;
+/** Arrays per point in a grid's block of kernel memory: 4 inputs (u, sin t, cos t, sin^2 t), 5 outputs. */
+const GRID_ARRAYS = 9;
 /** Grids kept prepared (the plot grid, the headroom grid, ...), most recently used last. */
 const MAX_GRIDS = 4;
 
@@ -524,12 +652,12 @@ function prepareGrid(k: WasmKernel, omega: Float64Array, sectionCount: number): 
     order[slot] = i;
     if (slot !== (mirrored ? padPlus + i - nPlus : i)) inOrder = false;
     // Inputs of "+" points: 3 arrays of padPlus; of "-" points: 3 arrays of padMinus after them.
-    if (mirrored) pointInputs(r - 4, mem, at + 3 * padPlus + (slot - padPlus), padMinus);
+    if (mirrored) pointInputs(r - 4, mem, at + POINT_INPUTS * padPlus + (slot - padPlus), padMinus);
     else pointInputs(r, mem, at + slot, padPlus);
   }
   // Padding points: t = 0.
   if (padPlus > nPlus) pointInputs(0, mem, at + nPlus, padPlus);
-  if (padMinus > nMinus) pointInputs(0, mem, at + 3 * padPlus + nMinus, padMinus);
+  if (padMinus > nMinus) pointInputs(0, mem, at + POINT_INPUTS * padPlus + nMinus, padMinus);
   const grid: PreparedGrid = { omega: Float64Array.from(omega), nPlus, nMinus, padPlus, padMinus, base, order: inOrder ? null : order };
   grids.push(grid);
   return grid;
@@ -540,14 +668,14 @@ function cascadeComplexWasm(k: WasmKernel, packed: Float64Array, sectionCount: n
   const { nPlus, nMinus, padPlus, padMinus, base } = grid;
   const mem = memoryView(k);
   const setDoubles = sectionCount * K_STRIDE * 2;
-  expandSections(packed, sectionCount, mem, 0, 2);
+  expandSections(packed, sectionCount, mem, 0, 2, pairsScratch);
   const inPlus = base;
-  const inMinus = base + 3 * padPlus * 8;
-  const outPlus = base + 3 * (padPlus + padMinus) * 8;
+  const inMinus = base + POINT_INPUTS * padPlus * 8;
+  const outPlus = base + POINT_INPUTS * (padPlus + padMinus) * 8;
   const outMinus = outPlus + 5 * padPlus * 8;
   let scaled = 0;
-  if (padPlus > 0) scaled |= k.cascade(0, sectionCount, inPlus, padPlus * 8, outPlus);
-  if (padMinus > 0) scaled |= k.cascade(setDoubles * 8, sectionCount, inMinus, padMinus * 8, outMinus);
+  if (padPlus > 0) scaled |= k.cascade(0, pairsScratch[0], inPlus, padPlus * 8, outPlus);
+  if (padMinus > 0) scaled |= k.cascade(setDoubles * 8, pairsScratch[1], inMinus, padMinus * 8, outMinus);
   const oP = outPlus / 8;
   const oM = outMinus / 8;
   for (let a = 0; a < 5; a++) {

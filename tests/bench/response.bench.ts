@@ -5,12 +5,13 @@
  * only) when python3 with scipy is present. Also per size: the first call on a new frequency grid
  * (the per-point sines included), the JavaScript fallback, and the presentation step (dB and phase)
  * per point. Times are the best of several runs (as Python's timeit recommends: the others only add
- * what the rest of the machine was doing); the spread of the runs is reported beside it.
+ * what the rest of the machine was doing); the spread of the runs is reported beside it, and so is
+ * the machine's load average before and after (on a shared machine the figures depend on it).
  * `npm run --silent bench -- --json` prints one JSON object.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { designBand } from '../../src/design/cookbook';
 import { designEdge } from '../../src/design/crossover';
@@ -146,6 +147,7 @@ function timeScipy(cases: { sections: Section[]; points: number }[]): { version:
 }
 
 const json = process.argv.includes('--json');
+const loadBefore = loadavg();
 const cases = SIZES.map((s) => ({ ...s, sections: makeSections(s.sections) }));
 const ours = cases.map((c) => timeKernel(c.sections, c.points));
 const scipy = timeScipy(cases);
@@ -166,10 +168,12 @@ const sizes = SIZES.map((s, i) => {
     meetsGoal: o.best <= GOAL_NS && (ratio === null || ratio >= GOAL_SCIPY_RATIO),
   };
 });
+const loadAfter = loadavg();
+const loadAverage = { before: loadBefore.map((x) => +x.toFixed(2)), after: loadAfter.map((x) => +x.toFixed(2)) };
 const measure = runMeasureBench();
 if (json) {
   process.stdout.write(
-    JSON.stringify({ sizes, measure, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
+    JSON.stringify({ sizes, measure, loadAverage, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
   );
 } else {
   console.log(
@@ -184,5 +188,6 @@ if (json) {
     );
   }
   console.log(`goal: at most ${GOAL_NS} ns per point x section and at least ${GOAL_SCIPY_RATIO}x faster than sosfreqz at every size`);
+  console.log(`load average (1, 5, 15 min) before ${loadAverage.before.join(' ')}, after ${loadAverage.after.join(' ')}`);
   console.log(measureBenchText(measure));
 }
