@@ -51,6 +51,8 @@ export interface DiagnosticValues {
   'shelf-overshoot': { slope: number; monotonicSlope: number };
   'near-nyquist': { frequencyHz: number; nyquistHz: number; fraction: number };
   'no-high-pass': Record<string, never>;
+  /** Largest digital-minus-analog magnitude (dB) over 20 Hz .. topHz, where it occurs, and whether the band is already matched. */
+  cramping: { deviationDb: number; frequencyHz: number; thresholdDb: number; topHz: number; matched: boolean };
   // refusals of the plan reader (src/plan/read.ts) and of the coefficient import (src/export/import.ts)
   'plan-field': { reason: string };
   'import-refused': { reason: string };
@@ -126,6 +128,8 @@ const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
       : `output ${targetPath(d.target)}: an edge at ${fmtHz(d.values.frequencyHz)} is close to Nyquist (${fmtHz(d.values.nyquistHz)})`,
   'no-high-pass': (d) =>
     `output ${targetPath(d.target)} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
+  cramping: (d) =>
+    `${d.target.kind === 'band' ? `band ${d.target.bandId}` : `output ${targetPath(d.target)}`} departs from its analog prototype by ${dbText(d.values.deviationDb)} at ${fmtHz(d.values.frequencyHz)} (more than ${d.values.thresholdDb} dB over 20 Hz - ${fmtHz(d.values.topHz)})${d.values.matched || d.target.kind === 'edge' ? '' : '; a matched design ("design": "matched") follows the analog shape'}`,
   'plan-field': (d) => prefixed(d.target, d.values.reason),
   'import-refused': (d) => prefixed(d.target, d.values.reason),
   'edit-refused': (d) => d.values.reason,

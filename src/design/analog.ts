@@ -90,6 +90,8 @@ export interface AnalogComplex {
   im: Float64Array;
   /** -d arg H / d(2 pi f), seconds. */
   groupDelayS: Float64Array;
+  /** d ln|H| / d(2 pi f), per rad/s: with the group delay, dH/dw = H (logSlope - j groupDelay), for sums. */
+  logSlope: Float64Array;
 }
 
 /**
@@ -100,12 +102,13 @@ export interface AnalogComplex {
  */
 export function analogComplex(prototypes: readonly AnalogPrototype[], frequenciesHz: ArrayLike<number>, gain = 1, delayS = 0): AnalogComplex {
   const n = frequenciesHz.length;
-  const out: AnalogComplex = { re: new Float64Array(n), im: new Float64Array(n), groupDelayS: new Float64Array(n) };
+  const out: AnalogComplex = { re: new Float64Array(n), im: new Float64Array(n), groupDelayS: new Float64Array(n), logSlope: new Float64Array(n) };
   for (let i = 0; i < n; i++) {
     const f = frequenciesHz[i];
     let hr = gain;
     let hi = 0;
     let tau = delayS;
+    let slope = 0;
     for (const p of prototypes) {
       const x = f / p.frequencyHz;
       const wRef = 2 * Math.PI * p.frequencyHz;
@@ -130,11 +133,16 @@ export function analogComplex(prototypes: readonly AnalogPrototype[], frequencie
         const numSlope = (n1 * nr + 2 * n0 * x * ni) / (nr * nr + ni * ni);
         const denSlope = (d1 * dr + 2 * d0 * x * di) / dd;
         tau -= (numSlope - denSlope) / wRef;
+        // d ln|P| / dw = Re(j P'/P) / wRef = -Im(P'/P) / wRef, Im(P'/P) = (2 c0 x Re P - c1 Im P) / |P|^2.
+        const numLog = (2 * n0 * x * nr - n1 * ni) / (nr * nr + ni * ni);
+        const denLog = (2 * d0 * x * dr - d1 * di) / dd;
+        slope -= (numLog - denLog) / wRef;
       }
     }
     out.re[i] = hr;
     out.im[i] = hi;
     out.groupDelayS[i] = tau;
+    out.logSlope[i] = slope;
   }
   // A pure delay multiplies by e^{-j 2 pi f D}.
   if (delayS !== 0) {

@@ -73,6 +73,8 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
       ? `${targetText(plan, d.target)} at ${fmtHz(d.values.frequencyHz)} is within ${Math.round((1 - d.values.fraction) * 100)}% of Nyquist (${fmtHz(d.values.nyquistHz)}): its shape is cramped by the bilinear transform`
       : `${targetText(plan, d.target)} at ${fmtHz(d.values.frequencyHz)} is close to Nyquist (${fmtHz(d.values.nyquistHz)})`,
   'no-high-pass': (plan, d) => `${targetText(plan, d.target)} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
+  cramping: (plan, d) =>
+    `${targetText(plan, d.target)} departs from its analog shape by ${dbText(d.values.deviationDb)} at ${fmtHz(d.values.frequencyHz)}${d.values.matched || d.target.kind === 'edge' ? '' : '; the band editor offers a matched design'}`,
   'plan-field': (plan, d) => withPlace(plan, d.target, d.values.reason),
   'import-refused': (plan, d) => withPlace(plan, d.target, d.values.reason),
   'edit-refused': (_plan, d) => d.values.reason,
