@@ -17,6 +17,7 @@ import { cmdMeasure } from './measure';
 import { acousticCsvColumns, acousticJson, acousticSection, smoothingOption } from './acoustic';
 import { cmdAttach } from './attach';
 import { cmdRetarget } from './retarget';
+import { sensitivityDiagnostics } from '../export/sensitivity';
 import { analogAddition } from './analog';
 import { delaysRounded, withBoardDelays } from '../design/board-delay';
 import { designedResponse } from '../response/chain-response';
@@ -193,7 +194,9 @@ function cmdCheck(argv: string[], io: CliIo): CliResult {
   const args = parseArgs(argv, ['format']);
   const format = optChoice(args, 'format', ['text', 'json'] as const, 'text');
   const { plan, path } = loadPlan(args, io);
-  const a = analyzePlan(plan);
+  const analysis = analyzePlan(plan);
+  // The board profile's number format, when the plan has one: sections it holds coarsely.
+  const a = { ...analysis, warnings: [...analysis.warnings, ...sensitivityDiagnostics(plan)] };
   if (format === 'json') {
     const warnings = a.warnings.map((w) => ({ severity: w.severity, code: w.code, where: targetPath(w.target), message: diagnosticMessage(w) }));
     return { code: 0, stdout: JSON.stringify({ valid: true, outputs: a.outputs, warnings }, null, 2) + '\n', stderr: '' };

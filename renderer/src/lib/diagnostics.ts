@@ -4,7 +4,7 @@
  * The command line words the same diagnostics with ids and field paths; nothing here reads a
  * sentence back.
  */
-import { gainScalingText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '../../../src/diagnostics';
+import { gainScalingText, sensitivityText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '../../../src/diagnostics';
 import type { Plan } from '../../../src/plan/types';
 import { formatFrequency as fmtHz } from '../../../src/ui/units';
 import { dbText, peakPlaceText } from '../../../src/format';
@@ -75,6 +75,7 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
   'no-high-pass': (plan, d) => `${targetText(plan, d.target)} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
   cramping: (plan, d) =>
     `${targetText(plan, d.target)} departs from its analog shape by ${dbText(d.values.deviationDb)} at ${fmtHz(d.values.frequencyHz)}${d.values.matched || d.target.kind === 'edge' ? '' : '; the band editor offers a matched design'}`,
+  'coefficient-sensitivity': (plan, d) => `${targetText(plan, d.target)}: ${sensitivityText(d.values)}`,
   'plan-field': (plan, d) => withPlace(plan, d.target, d.values.reason),
   'import-refused': (plan, d) => withPlace(plan, d.target, d.values.reason),
   'edit-refused': (_plan, d) => d.values.reason,
