@@ -164,3 +164,15 @@ export function analogMagnitudeDb(h: AnalogComplex): Float64Array {
   for (let i = 0; i < out.length; i++) out[i] = 10 * Math.log10(h.re[i] * h.re[i] + h.im[i] * h.im[i]);
   return out;
 }
+
+/**
+ * What the bilinear transform pre-warped at f does to an analog low-frequency group delay: near
+ * DC the digital frequency maps to W = tan(w/2) / tan(wc/2), so the delay is scaled by
+ * dW/dw at 0 over the analog 1 / wc: wc / (2 tan(wc / 2)), wc = 2 pi f / fs. A Bessel edge
+ * normalized for delay keeps its 1 / (2 pi f) only while this is near 1 (0.993 at 2.2 kHz,
+ * 0.605 at 16 kHz at 48 kHz; docs/references.md, "Analog prototypes and cramping").
+ */
+export function bilinearLowFrequencyDelayRatio(frequencyHz: number, sampleRateHz: number): number {
+  const wc = (2 * Math.PI * frequencyHz) / sampleRateHz;
+  return wc / (2 * Math.tan(wc / 2));
+}

@@ -6,7 +6,9 @@
  * at 30 digits (1e-9 relative).
  */
 import { describe, expect, it } from 'vitest';
-import { analogComplex, analogMagnitudeDb, bandPrototype, edgeAnalogPrototype } from '../../src/design/analog';
+import { analogComplex, analogMagnitudeDb, bandPrototype, bilinearLowFrequencyDelayRatio, edgeAnalogPrototype } from '../../src/design/analog';
+import { designEdge } from '../../src/design/crossover';
+import { responseAt } from '../helpers/reference';
 import type { Band, Crossover, EdgeKind } from '../../src/plan/types';
 import { angleDiffDeg, loadFixture } from '../helpers/reference';
 
@@ -64,5 +66,31 @@ describe('analog prototypes (scipy.signal.freqs)', () => {
       expect(b.groupDelayS[i] - a.groupDelayS[i]).toBeCloseTo(0.001, 15);
       expect(Math.hypot(b.re[i], b.im[i])).toBeCloseTo(Math.hypot(a.re[i], a.im[i]), 12);
     }
+  });
+});
+
+interface DelayCase {
+  kind: string;
+  order: number;
+  frequency: number;
+  sampleRate: number;
+  delayAt1HzS: number;
+  promisedS: number;
+  ratio: number;
+}
+
+describe('the Bessel "delay" normalization after the bilinear transform (scipy.signal.bessel, 50-digit group delay)', () => {
+  const cases = loadFixture<DelayCase>('analog.json').cases.filter((c) => c.kind === 'besselDelay');
+  it('holds 2.2 kHz and 16 kHz at 48 kHz', () => expect(cases.map((c) => c.frequency)).toEqual(expect.arrayContaining([2200, 16000])));
+  for (const c of cases) {
+    it(`order ${c.order} at ${c.frequency} Hz, ${c.sampleRate} Hz: the low-frequency delay is ${(100 * (1 - c.ratio)).toFixed(1)} % short`, () => {
+      expect(bilinearLowFrequencyDelayRatio(c.frequency, c.sampleRate)).toBeCloseTo(c.ratio, 6);
+      const r = responseAt(designEdge({ family: 'bessel', order: c.order, frequency: c.frequency, normalization: 'delay' }, 'lowPass', c.sampleRate), [1], c.sampleRate);
+      expect(r.groupDelayMs[0] / 1000 / c.delayAt1HzS).toBeCloseTo(1, 8);
+    });
+  }
+  it('0.7 % short at 2.2 kHz and 40 % short at 16 kHz, at 48 kHz', () => {
+    expect(1 - bilinearLowFrequencyDelayRatio(2200, 48000)).toBeCloseTo(0.007, 3);
+    expect(1 - bilinearLowFrequencyDelayRatio(16000, 48000)).toBeCloseTo(0.4, 1);
   });
 });
