@@ -80,3 +80,9 @@ export const DELAY_ROUNDING_SHOW_DB = 0.1;
 export function crampingTopHz(sampleRateHz: number): number {
   return Math.min(HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION * (sampleRateHz / 2));
 }
+
+/** A section the board's format holds with a larger magnitude error (dB) or pole-frequency error (%) asks for more than the direct form (common practice, no source). */
+export const SENSITIVITY_ERROR_DB = 0.1;
+export const SENSITIVITY_FREQUENCY_PERCENT = 1;
+/** Poles this close to the unit circle ask for error feedback in a fixed-point format (common practice, no source). */
+export const ERROR_FEEDBACK_RADIUS = 0.999;

@@ -24,6 +24,7 @@ import { designEdge } from '../design/crossover';
 import { diagnostic, type Diagnostic } from '../diagnostics';
 import { fromFixed, toFixed } from './fixed';
 import { largestDeviation, sectionsMagnitudeDb, crampingGrid } from '../analysis/cramping';
+import { ERROR_FEEDBACK_RADIUS, SENSITIVITY_ERROR_DB, SENSITIVITY_FREQUENCY_PERCENT } from '../analysis/thresholds';
 
 export type SectionForm = 'direct' | 'double-precision' | 'error-feedback';
 
@@ -42,12 +43,6 @@ export interface SectionSensitivity {
   poleRadius: number;
   form: SectionForm;
 }
-
-/** A section's error above these asks for more than the direct form (common practice, no source). */
-export const SENSITIVITY_ERROR_DB = 0.1;
-export const SENSITIVITY_FREQUENCY_PERCENT = 1;
-/** Poles this close to the unit circle ask for error feedback (common practice, no source). */
-export const ERROR_FEEDBACK_RADIUS = 0.999;
 
 /** The value the board holds for a coefficient under a profile (scale and rounding undone). */
 export function heldCoefficient(x: number, p: BoardProfile): number {
