@@ -13,8 +13,12 @@ import { CRAMPING_WARN_DB, MARGINAL_POLE_RADIUS, NEAR_NYQUIST_FRACTION, cramping
 import { planCramping } from './cramping';
 import { diagnostic, type Diagnostic } from '../diagnostics';
 
-/** The codes `check` emits; each surface words them (see src/diagnostics.ts). */
-export type CheckCode = 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability' | 'shelf-overshoot' | 'cramping';
+/**
+ * The codes `check` emits; each surface words them (see src/diagnostics.ts).
+ * 'coefficient-sensitivity' comes from src/export/sensitivity.ts beside analyzePlan: it needs the
+ * board's number format, and analysis/ imports nothing from export/.
+ */
+export type CheckCode = 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability' | 'shelf-overshoot' | 'cramping' | 'coefficient-sensitivity';
 export type Warning = Diagnostic<CheckCode>;
 
 
