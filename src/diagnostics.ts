@@ -51,6 +51,10 @@ export interface DiagnosticValues {
   'shelf-overshoot': { slope: number; monotonicSlope: number };
   'near-nyquist': { frequencyHz: number; nyquistHz: number; fraction: number };
   'no-high-pass': Record<string, never>;
+  /** Largest digital-minus-analog magnitude (dB) over 20 Hz .. topHz, where it occurs, and whether the band is already matched. */
+  cramping: { deviationDb: number; frequencyHz: number; thresholdDb: number; topHz: number; matched: boolean };
+  /** A band or edge the board's number format holds coarsely (src/export/sensitivity.ts), and the form it should run in. */
+  'coefficient-sensitivity': { form: 'error-feedback' | 'double-precision'; frequencyErrorPercent: number; largestErrorDb: number; poleRadius: number; profileName: string };
   // refusals of the plan reader (src/plan/read.ts) and of the coefficient import (src/export/import.ts)
   'plan-field': { reason: string };
   'import-refused': { reason: string };
@@ -111,6 +115,14 @@ export function targetPath(t: DiagnosticTarget): string {
 
 const fmtHz = formatFrequency;
 
+/** The words of a coefficient-sensitivity finding, the same on every surface. */
+export function sensitivityText(v: DiagnosticValues['coefficient-sensitivity']): string {
+  const figures = `in "${v.profileName}" its pole frequency moves ${v.frequencyErrorPercent >= 0 ? '+' : ''}${v.frequencyErrorPercent.toFixed(2)}% and its magnitude up to ${v.largestErrorDb.toFixed(2)} dB (poles at radius ${v.poleRadius.toFixed(6)})`;
+  return v.form === 'double-precision'
+    ? `${figures}: run this section with double-precision coefficients (two words each) or in a low-sensitivity form`
+    : `${figures}: run this section with error feedback (noise shaping), its rounding noise grows as its poles near the unit circle`;
+}
+
 /** The command line's words for each code: ids and field paths. */
 const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
   unstable: (d) =>
@@ -126,6 +138,9 @@ const MESSAGES: { [C in DiagnosticCode]: (d: Diagnostic<C>) => string } = {
       : `output ${targetPath(d.target)}: an edge at ${fmtHz(d.values.frequencyHz)} is close to Nyquist (${fmtHz(d.values.nyquistHz)})`,
   'no-high-pass': (d) =>
     `output ${targetPath(d.target)} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
+  cramping: (d) =>
+    `${d.target.kind === 'band' ? `band ${d.target.bandId}` : `output ${targetPath(d.target)}`} departs from its analog prototype by ${dbText(d.values.deviationDb)} at ${fmtHz(d.values.frequencyHz)} (more than ${d.values.thresholdDb} dB over 20 Hz - ${fmtHz(d.values.topHz)})${d.values.matched || d.target.kind === 'edge' ? '' : '; a matched design ("design": "matched") follows the analog shape'}`,
+  'coefficient-sensitivity': (d) => `${d.target.kind === 'band' ? `band ${d.target.bandId}` : `output ${targetPath(d.target)}`}: ${sensitivityText(d.values)}`,
   'plan-field': (d) => prefixed(d.target, d.values.reason),
   'import-refused': (d) => prefixed(d.target, d.values.reason),
   'edit-refused': (d) => d.values.reason,

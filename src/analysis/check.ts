@@ -9,11 +9,16 @@ import type { Band, Output, Plan } from '../plan/types';
 import { headroom, type Headroom } from './headroom';
 import { largestPoleRadius } from './poles';
 import { worstCasePeak, type WorstCase } from './worst-case';
-import { MARGINAL_POLE_RADIUS, NEAR_NYQUIST_FRACTION, headroomSeverity } from './thresholds';
+import { CRAMPING_WARN_DB, MARGINAL_POLE_RADIUS, NEAR_NYQUIST_FRACTION, crampingTopHz, headroomSeverity } from './thresholds';
+import { planCramping } from './cramping';
 import { diagnostic, type Diagnostic } from '../diagnostics';
 
-/** The codes `check` emits; each surface words them (see src/diagnostics.ts). */
-export type CheckCode = 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability' | 'shelf-overshoot';
+/**
+ * The codes `check` emits; each surface words them (see src/diagnostics.ts).
+ * 'coefficient-sensitivity' comes from src/export/sensitivity.ts beside analyzePlan: it needs the
+ * board's number format, and analysis/ imports nothing from export/.
+ */
+export type CheckCode = 'headroom' | 'unstable' | 'near-nyquist' | 'no-high-pass' | 'marginal-stability' | 'shelf-overshoot' | 'cramping' | 'coefficient-sensitivity';
 export type Warning = Diagnostic<CheckCode>;
 
 
@@ -149,5 +154,23 @@ export function analyzePlan(plan: Plan): PlanAnalysis {
       warnings.push(diagnostic('no-high-pass', 'danger', output, {}));
     }
   });
+  crampedItems(plan, warnings);
   return { outputs, warnings };
+}
+
+/** Bands and edges whose digital magnitude departs from their analog prototype by more than CRAMPING_WARN_DB. */
+function crampedItems(plan: Plan, warnings: Warning[]): void {
+  for (const c of planCramping(plan)) {
+    if (!(Math.abs(c.deviationDb) <= CRAMPING_WARN_DB)) {
+      warnings.push(
+        diagnostic('cramping', 'warning', c.target, {
+          deviationDb: c.deviationDb,
+          frequencyHz: c.frequencyHz,
+          thresholdDb: CRAMPING_WARN_DB,
+          topHz: crampingTopHz(plan.sampleRate),
+          matched: c.method === 'matched',
+        }),
+      );
+    }
+  }
 }

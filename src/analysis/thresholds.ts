@@ -54,3 +54,35 @@ export function headroomSeverity(peakDb: number): 'warning' | 'danger' | null {
 
 /** The plan sheet's plots run to 20 kHz or this fraction of fs, like the export view's quantized plot. */
 export const SHEET_PLOT_TOP_FRACTION = QUANTIZED_PLOT_TOP_FRACTION;
+
+/**
+ * `check` reports a band or edge whose digital magnitude departs from its analog prototype by
+ * more than this over the cramping range (common practice, no source: 1 dB is about the smallest
+ * broad level change listeners notice reliably).
+ */
+export const CRAMPING_WARN_DB = 1;
+/**
+ * Magnitudes below this are compared as this (common practice, no source): below -20 dB a band or
+ * edge is in its stop band, where its exact depth is not its shape (a crossover edge's bilinear
+ * stop band falls faster toward Nyquist than the analog one, which only helps), and a notch's
+ * zero is not a shape error.
+ */
+export const CRAMPING_FLOOR_DB = -20;
+/** The cramping range: 20 Hz to 20 kHz or `RESPONSE_TOP_NYQUIST_FRACTION` of Nyquist, whichever is lower, on this many log-spaced points. */
+export const CRAMPING_LOW_HZ = 20;
+export const CRAMPING_POINTS = 512;
+/** A sample-rate change that moves a band or edge by more than this (dB, 20 Hz - 20 kHz) offers a matched design. */
+export const RETARGET_TOLERANCE_DB = 0.5;
+/** Delay rounding: the sum's difference between the exact and the board's delays is shown above this (dB). */
+export const DELAY_ROUNDING_SHOW_DB = 0.1;
+
+/** The top of the cramping range at `sampleRateHz`. */
+export function crampingTopHz(sampleRateHz: number): number {
+  return Math.min(HEADROOM_HIGH_HZ, RESPONSE_TOP_NYQUIST_FRACTION * (sampleRateHz / 2));
+}
+
+/** A section the board's format holds with a larger magnitude error (dB) or pole-frequency error (%) asks for more than the direct form (common practice, no source). */
+export const SENSITIVITY_ERROR_DB = 0.1;
+export const SENSITIVITY_FREQUENCY_PERCENT = 1;
+/** Poles this close to the unit circle ask for error feedback in a fixed-point format (common practice, no source). */
+export const ERROR_FEEDBACK_RADIUS = 0.999;

@@ -16,6 +16,13 @@ import { responseFrequencies, responseResult } from './response';
 import { cmdMeasure } from './measure';
 import { acousticCsvColumns, acousticJson, acousticSection, smoothingOption } from './acoustic';
 import { cmdAttach } from './attach';
+import { cmdRetarget } from './retarget';
+import { sensitivityDiagnostics } from '../export/sensitivity';
+import { analogAddition } from './analog';
+import { delaysRounded, withBoardDelays } from '../design/board-delay';
+import { designedResponse } from '../response/chain-response';
+import { DELAY_ROUNDING_SHOW_DB } from '../analysis/thresholds';
+import { dbText, formatFrequency } from '../format';
 
 export { checkOutputId, InputError, loadPlan, type CliIo, type CliResult } from './io';
 export { responseColumns, responseCsv, responseFrequencies, responseResult, toDegreesWrapped, type ResponseAddition, type ResponseColumns } from './response';
@@ -26,15 +33,19 @@ export const COMMAND_USAGE: Record<string, string> = {
       the sections of every output (or one) in the file convention
       H(z) = (b0 + b1 z^-1 + b2 z^-2) / (1 + a1 z^-1 + a2 z^-2)`,
   response: `  response PLAN [--freqs F1,F2,...] [--points N --from F --to F] [--format json|csv] [--quantize Qm.n]
-           [--acoustic [--smooth 1/N|var]]
+           [--acoustic [--smooth 1/N|var]] [--analog] [--exact-delay]
       magnitude (dB), phase (degrees) and group delay (ms) of each unmuted output and of their sum
       (default: 512 log-spaced points from 20 Hz to 20 kHz, clipped below Nyquist);
       --quantize Qm.n (e.g. Q5.23): of the sections quantized to Qm.n, from the exact integers;
       --acoustic: also the predicted acoustic response (driver measurement x chain x offset) of
       each unmuted output with a driver measurement, and their predicted sum; null outside a
-      measurement's range; --smooth: the driver measurements smoothed first`,
+      measurement's range; --smooth: the driver measurements smoothed first;
+      --analog: also the analog prototype's curves (each band and edge as its s-domain design);
+      delays are those the plan's board runs (rounded to whole samples when its profile says
+      so; the sum's change is noted on stderr above 0.1 dB); --exact-delay: the exact delays`,
   check: `  check PLAN [--format text|json]
-      validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass)`,
+      validates the plan and prints the warnings (headroom, stability, Nyquist, missing high-pass,
+      cramping: a band or edge more than 1 dB from its analog prototype over 20 Hz - 20 kHz)`,
   export: `  export PLAN [--profile NAME|FILE] [--format text|csv|json|c] [--output ID] [--arrange as-designed|suggested]
       the coefficient list a DSP board wants, per its board profile (default: the plan's own,
       else "float"); refused when an output needs more sections than the board runs.
@@ -53,6 +64,10 @@ export const COMMAND_USAGE: Record<string, string> = {
       the plan with the measurement in FILE (text columns, or a WAV impulse response: first
       channel, default gate) added as the output's driver measurement or as a system
       measurement, written to stdout`,
+  retarget: `  retarget PLAN --sample-rate HZ [--method bilinear|matched] [--tolerance DB]
+      the plan at another sample rate, written to stdout; on stderr how far each band and edge
+      moves (largest dB difference over 20 Hz - 20 kHz); --method matched: bands moving more
+      than the tolerance (default 0.5 dB) get a matched design; bilinear: every band bilinear`,
 };
 
 const EXIT_CODES = 'exit codes: 0 success, 1 invalid plan or input file, 2 usage error';
@@ -86,6 +101,7 @@ export const COMMANDS: Record<string, (argv: string[], io: CliIo) => CliResult> 
   import: cmdImport,
   measure: cmdMeasure,
   attach: cmdAttach,
+  retarget: cmdRetarget,
 };
 
 export function runCli(argv: readonly string[], io: CliIo, info: CliInfo = { version: 'unknown' }): CliResult {
@@ -121,27 +137,66 @@ function cmdCoeffs(argv: string[], io: CliIo): CliResult {
 }
 
 function cmdResponse(argv: string[], io: CliIo): CliResult {
-  const args = parseArgs(argv, ['freqs', 'points', 'from', 'to', 'format', 'quantize', 'smooth'], ['acoustic']);
+  const args = parseArgs(argv, ['freqs', 'points', 'from', 'to', 'format', 'quantize', 'smooth'], ['acoustic', 'analog', 'exact-delay']);
   const format = optChoice(args, 'format', ['json', 'csv'] as const, 'json');
   const acoustic = args.options.get('acoustic') === true;
+  const analog = args.options.get('analog') === true;
+  const exactDelay = args.options.get('exact-delay') === true;
   if (!acoustic && args.options.has('smooth')) throw new UsageError('--smooth applies to the acoustic prediction: add --acoustic');
   const smoothing = smoothingOption(optString(args, 'smooth'));
   const { plan } = loadPlan(args, io);
   const quantize = optString(args, 'quantize');
   if (quantize !== undefined && acoustic) throw new UsageError('--acoustic cannot be combined with --quantize');
+  if (quantize !== undefined && analog) throw new UsageError('--analog cannot be combined with --quantize');
   if (quantize !== undefined) return quantizedResponseText(plan, args, quantize, format);
   const freqs = responseFrequencies(args, plan.sampleRate);
-  if (!acoustic) return responseResult(designPlan(plan), plan.sampleRate, freqs, format);
-  const a = acousticSection(plan, freqs, smoothing);
-  const addition = { json: { acoustic: acousticJson(plan, a) }, csv: acousticCsvColumns(a) };
-  return responseResult(designPlan(plan), plan.sampleRate, freqs, format, {}, a.notes.map((l) => l + '\n').join(''), addition);
+  const exact = designPlan(plan);
+  const designed = exactDelay ? exact : withBoardDelays(exact, plan);
+  const notes: string[] = [];
+  if (!exactDelay && delaysRounded(plan)) notes.push(delayRoundingNote(exact, designed, plan.sampleRate, freqs));
+  const json: Record<string, unknown> = {};
+  const csv: { header: string[]; row: (i: number) => string[] }[] = [];
+  if (acoustic) {
+    const a = acousticSection(plan, freqs, smoothing);
+    json.acoustic = acousticJson(plan, a);
+    csv.push(acousticCsvColumns(a));
+    notes.push(...a.notes);
+  }
+  if (analog) {
+    const a = analogAddition(plan, freqs);
+    Object.assign(json, a.addition.json);
+    csv.push(a.addition.csv);
+    if (a.note) notes.push(a.note.trimEnd());
+  }
+  const addition = csv.length === 0 ? undefined : { json, csv: { header: csv.flatMap((c) => c.header), row: (i: number) => csv.flatMap((c) => c.row(i)) } };
+  return responseResult(designed, plan.sampleRate, freqs, format, {}, notes.map((l) => l + '\n').join(''), addition);
+}
+
+/** What rounding the delays to the board's resolution does to the sum, for stderr. */
+function delayRoundingNote(exact: ReturnType<typeof designPlan>, board: ReturnType<typeof designPlan>, sampleRate: number, freqs: Float64Array): string {
+  const a = designedResponse(exact, freqs, sampleRate).sum.magnitudeDb;
+  const b = designedResponse(board, freqs, sampleRate).sum.magnitudeDb;
+  let worst = 0;
+  let at = freqs[0];
+  for (let i = 0; i < freqs.length; i++) {
+    const d = b[i] - a[i];
+    if (Number.isFinite(d) && Math.abs(d) > Math.abs(worst)) {
+      worst = d;
+      at = freqs[i];
+    }
+  }
+  return Math.abs(worst) > DELAY_ROUNDING_SHOW_DB
+    ? `delays rounded to the board's resolution: the sum differs from the exact delays' by ${dbText(worst)} at ${formatFrequency(at)} (--exact-delay for the exact delays)`
+    : `delays rounded to the board's resolution (the sum moves by at most ${DELAY_ROUNDING_SHOW_DB} dB; --exact-delay for the exact delays)`;
 }
 
 function cmdCheck(argv: string[], io: CliIo): CliResult {
   const args = parseArgs(argv, ['format']);
   const format = optChoice(args, 'format', ['text', 'json'] as const, 'text');
   const { plan, path } = loadPlan(args, io);
-  const a = analyzePlan(plan);
+  const analysis = analyzePlan(plan);
+  // The board profile's number format, when the plan has one: sections it holds coarsely.
+  const a = { ...analysis, warnings: [...analysis.warnings, ...sensitivityDiagnostics(plan)] };
   if (format === 'json') {
     const warnings = a.warnings.map((w) => ({ severity: w.severity, code: w.code, where: targetPath(w.target), message: diagnosticMessage(w) }));
     return { code: 0, stdout: JSON.stringify({ valid: true, outputs: a.outputs, warnings }, null, 2) + '\n', stderr: '' };

@@ -3,8 +3,8 @@
  * plus the output's linear gain (polarity included) and delay.
  * Signal order: input bands, highPass edge, lowPass edge, the output's bands, gain, polarity, delay.
  */
-import type { Band, Output, Plan } from '../plan/types';
-import { designBand } from './cookbook';
+import type { Band, DesignMethod, Output, Plan } from '../plan/types';
+import { designBandBy } from './band';
 import { designEdge } from './crossover';
 import type { Section } from './section';
 
@@ -24,18 +24,18 @@ export interface DesignedOutput {
   sections: SourcedSection[];
 }
 
-export function designBands(bands: readonly Band[], sampleRateHz: number, prefix: string): SourcedSection[] {
+export function designBands(bands: readonly Band[], sampleRateHz: number, prefix: string, defaultMethod: DesignMethod = 'bilinear'): SourcedSection[] {
   const out: SourcedSection[] = [];
   for (const band of bands) {
     if (!band.enabled) continue;
-    for (const s of designBand(band, sampleRateHz)) out.push({ ...s, from: `${prefix}/${band.id}` });
+    for (const s of designBandBy(band, sampleRateHz, defaultMethod)) out.push({ ...s, from: `${prefix}/${band.id}` });
   }
   return out;
 }
 
 /** The input chain's sections, shared by every output. */
 export function designInput(plan: Plan): SourcedSection[] {
-  return designBands(plan.input.bands, plan.sampleRate, 'input');
+  return designBands(plan.input.bands, plan.sampleRate, 'input', plan.defaultDesign);
 }
 
 /** One output's own sections (edges and bands), without the input chain. */
@@ -47,7 +47,7 @@ export function designOutputOwn(plan: Plan, output: Output): SourcedSection[] {
     const edge = output[kind];
     if (edge) for (const s of designEdge(edge, kind, fs)) sections.push({ ...s, from: `${output.id}/${kind}` });
   }
-  sections.push(...designBands(output.bands, fs, output.id));
+  sections.push(...designBands(output.bands, fs, output.id, plan.defaultDesign));
   return sections;
 }
 

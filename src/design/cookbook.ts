@@ -87,8 +87,13 @@ export function designBand(band: Band, sampleRateHz: number): Section[] {
   const A = Math.pow(10, gainDb / 40);
 
   switch (band.type) {
-    case 'lowPass':
-      return [normalizeSection((1 - cosW0) / 2, 1 - cosW0, (1 - cosW0) / 2, 1 + alpha, -2 * cosW0, 1 - alpha)];
+    case 'lowPass': {
+      // 1 - cos(w0) as 2 sin^2(w0/2): the difference loses every digit of a low-frequency section
+      // (at 20 Hz, 192 kHz, 1 - cos w0 is 1e-7, and the subtraction keeps only ~9 of its 16 digits).
+      const sh = Math.sin(w0 / 2);
+      const oneMinusCos = 2 * sh * sh;
+      return [normalizeSection(oneMinusCos / 2, oneMinusCos, oneMinusCos / 2, 1 + alpha, -2 * cosW0, 1 - alpha)];
+    }
     case 'highPass':
       return [normalizeSection((1 + cosW0) / 2, -(1 + cosW0), (1 + cosW0) / 2, 1 + alpha, -2 * cosW0, 1 - alpha)];
     case 'bandPass':

@@ -14,14 +14,14 @@ import { prototypePoles, type Pole } from './prototypes';
  * An analog section in the prototype's s: (B0 s^2 + B1 s + B2) / (A0 s^2 + A1 s + A2); a first-order
  * one has B0 = A0 = 0 and is read as (B1 s + B2) / (A1 s + A2).
  */
-interface AnalogSection {
+export interface AnalogSection {
   B: [number, number, number];
   A: [number, number, number];
   firstOrder: boolean;
 }
 
 /** Analog sections of one pole (pair), low-pass with unit DC gain or high-pass (s -> 1/s) with unit HF gain. */
-function analogSection(p: Pole, kind: EdgeKind): AnalogSection {
+export function analogSection(p: Pole, kind: EdgeKind): AnalogSection {
   if (p.im === 0) {
     const sigma = -p.re;
     // Low-pass sigma / (s + sigma); high-pass s / (s + 1/sigma).

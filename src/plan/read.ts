@@ -15,6 +15,9 @@ import { shownToken } from './shown-text';
 import {
   ACOUSTIC_OFFSET_UNITS,
   BAND_TYPES,
+  DESIGN_METHODS,
+  MATCHED_DESIGN_TYPES,
+  type DesignMethod,
   MEASUREMENT_KINDS,
   BESSEL_NORMALIZATIONS,
   CROSSOVER_FAMILIES,
@@ -94,9 +97,19 @@ function refuseNewerFields(root: Record<string, unknown>, version: number): void
   };
   check(root, FIELDS_SINCE.plan, '');
   if (Array.isArray(root.outputs)) root.outputs.forEach((o, i) => check(o, FIELDS_SINCE.output, `outputs[${i}]`));
+  const checkBands = (bands: unknown, path: string) => {
+    if (Array.isArray(bands)) bands.forEach((b, i) => check(b, FIELDS_SINCE.band, `${path}[${i}]`));
+  };
+  const input: unknown = root.input;
+  if (typeof input === 'object' && input !== null) checkBands((input as Record<string, unknown>).bands, 'input.bands');
+  if (Array.isArray(root.outputs)) {
+    root.outputs.forEach((o: unknown, i) => {
+      if (typeof o === 'object' && o !== null) checkBands((o as Record<string, unknown>).bands, `outputs[${i}].bands`);
+    });
+  }
 }
 
-const PLAN_KEYS = ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs', 'profile', 'airTemperatureC', 'measurements', 'systemMeasurementIds'];
+const PLAN_KEYS = ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs', 'profile', 'airTemperatureC', 'measurements', 'systemMeasurementIds', 'defaultDesign'];
 
 function readCurrent(o: Record<string, unknown>): Plan {
   allowKeys(o, '', PLAN_KEYS);
@@ -137,6 +150,7 @@ function readCurrent(o: Record<string, unknown>): Plan {
   });
   if (o.profile !== undefined && o.profile !== null) plan.profile = readBoardProfile(o.profile, 'profile');
   readMeasurementFields(o, plan);
+  if (o.defaultDesign !== undefined) plan.defaultDesign = oneOf(o.defaultDesign, 'defaultDesign', DESIGN_METHODS) as DesignMethod;
   return plan;
 }
 
@@ -477,7 +491,7 @@ function readBands(v: unknown, path: string, fs: number, maxBands: number = LIMI
   });
 }
 
-const BAND_KEYS = ['id', 'type', 'frequency', 'gainDb', 'q', 'slope', 'enabled', 'coefficients'];
+const BAND_KEYS = ['id', 'type', 'frequency', 'gainDb', 'q', 'slope', 'enabled', 'coefficients', 'design'];
 
 function readBand(v: unknown, path: string, fs: number): Band {
   const o = object(v, path);
@@ -517,6 +531,12 @@ function readBand(v: unknown, path: string, fs: number): Band {
   }
   if (o.coefficients !== undefined) band.coefficients = readCoefficients(o.coefficients, `${path}.coefficients`);
   if (isRaw && !band.coefficients) throw new PlanError(`${path}.coefficients`, 'required for a raw band');
+  if (o.design !== undefined) {
+    band.design = oneOf(o.design, `${path}.design`, DESIGN_METHODS) as DesignMethod;
+    if (band.design === 'matched' && !MATCHED_DESIGN_TYPES.includes(type)) {
+      throw new PlanError(`${path}.design`, `"matched" applies to peaking, shelf, low-pass, high-pass, band-pass and notch bands, not ${type}`);
+    }
+  }
   return band;
 }
 

@@ -65,7 +65,19 @@ export interface Band {
   enabled: boolean;
   /** `raw` only. */
   coefficients?: RawCoefficients;
+  /** Version 3: how the band becomes a section; absent: the plan's `defaultDesign`, else "bilinear". */
+  design?: DesignMethod;
 }
+
+/**
+ * How a band becomes a digital section: "bilinear", the Audio EQ Cookbook's bilinear transform
+ * (the default); "matched", a section whose magnitude follows the analog prototype up to Nyquist
+ * (src/design/matched.ts).
+ */
+export type DesignMethod = 'bilinear' | 'matched';
+export const DESIGN_METHODS: readonly DesignMethod[] = ['bilinear', 'matched'];
+/** The band types with a matched design; the others stay bilinear. */
+export const MATCHED_DESIGN_TYPES: readonly BandType[] = ['peaking', 'lowShelf', 'highShelf', 'lowPass', 'highPass', 'bandPass', 'notch'];
 
 export type CrossoverFamily = 'butterworth' | 'linkwitz-riley' | 'bessel';
 export const CROSSOVER_FAMILIES: readonly CrossoverFamily[] = ['butterworth', 'linkwitz-riley', 'bessel'];
@@ -157,6 +169,8 @@ export interface Plan {
   measurements?: Measurement[];
   /** Version 3: ids of the measurements of the whole system or the room (not of one driver). */
   systemMeasurementIds?: string[];
+  /** Version 3: the design method of bands that name none; absent: "bilinear". */
+  defaultDesign?: DesignMethod;
 }
 
 /** The air temperature a plan without one uses, degrees Celsius. */

@@ -21,6 +21,8 @@ function band(b: Band): Record<string, unknown> {
     const c = b.coefficients;
     o.coefficients = { b0: c.b0, b1: c.b1, b2: c.b2, a0: c.a0, a1: c.a1, a2: c.a2 };
   }
+  // Version 3, written only when set.
+  if (b.design !== undefined) o.design = b.design;
   return o;
 }
 
@@ -74,6 +76,7 @@ export function planToJson(plan: Plan): Record<string, unknown> {
   // line alone. The measurements go last, as they are the bulk of the file.
   if (plan.airTemperatureC !== undefined) o.airTemperatureC = plan.airTemperatureC;
   if (plan.systemMeasurementIds !== undefined) o.systemMeasurementIds = [...plan.systemMeasurementIds];
+  if (plan.defaultDesign !== undefined) o.defaultDesign = plan.defaultDesign;
   if (plan.measurements !== undefined) o.measurements = plan.measurements.map(measurementToJson);
   return o;
 }

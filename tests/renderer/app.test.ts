@@ -396,6 +396,10 @@ describe('files through the host', () => {
     custom.dispatchEvent(new Event('input', { bubbles: true }));
     custom.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true }));
     flushSync();
+    // The 21 kHz band moves by more than the tolerance: the rate waits for the dialog's choice.
+    expect(doc.plan.sampleRate).toBe(48000);
+    target.querySelector<HTMLButtonElement>('[data-testid="retarget-keep"]')!.click();
+    flushSync();
     expect(doc.plan.sampleRate).toBe(96000);
   });
 
@@ -412,6 +416,10 @@ describe('files through the host', () => {
     expect(view.notice?.text).toMatch(/44\.1 kHz refused/);
     select.value = '96000';
     select.dispatchEvent(new Event('change', { bubbles: true }));
+    flushSync();
+    // The 23 kHz band moves by more than the tolerance: the list keeps the plan's rate until the dialog's choice.
+    expect(select.value).toBe('48000');
+    target.querySelector<HTMLButtonElement>('[data-testid="retarget-keep"]')!.click();
     flushSync();
     expect(doc.plan.sampleRate).toBe(96000);
     expect(select.value).toBe('96000');

@@ -4,7 +4,7 @@
  * The command line words the same diagnostics with ids and field paths; nothing here reads a
  * sentence back.
  */
-import { gainScalingText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '$core/diagnostics';
+import { gainScalingText, sensitivityText, type Diagnostic, type DiagnosticCode, type DiagnosticTarget, type RateMisfit } from '$core/diagnostics';
 import type { Plan } from '$core/plan/types';
 import { formatFrequency as fmtHz } from '$core/ui/units';
 import { dbText, peakPlaceText } from '$core/format';
@@ -73,6 +73,9 @@ const TEXT: { [C in DiagnosticCode]: (plan: Plan, d: Diagnostic<C>) => string } 
       ? `${targetText(plan, d.target)} at ${fmtHz(d.values.frequencyHz)} is within ${Math.round((1 - d.values.fraction) * 100)}% of Nyquist (${fmtHz(d.values.nyquistHz)}): its shape is cramped by the bilinear transform`
       : `${targetText(plan, d.target)} at ${fmtHz(d.values.frequencyHz)} is close to Nyquist (${fmtHz(d.values.nyquistHz)})`,
   'no-high-pass': (plan, d) => `${targetText(plan, d.target)} looks like a high-frequency way but has no high-pass edge or high-pass band: low frequencies can destroy its driver`,
+  cramping: (plan, d) =>
+    `${targetText(plan, d.target)} departs from its analog shape by ${dbText(d.values.deviationDb)} at ${fmtHz(d.values.frequencyHz)}${d.values.matched || d.target.kind === 'edge' ? '' : '; the band editor offers a matched design'}`,
+  'coefficient-sensitivity': (plan, d) => `${targetText(plan, d.target)}: ${sensitivityText(d.values)}`,
   'plan-field': (plan, d) => withPlace(plan, d.target, d.values.reason),
   'import-refused': (plan, d) => withPlace(plan, d.target, d.values.reason),
   'edit-refused': (_plan, d) => d.values.reason,

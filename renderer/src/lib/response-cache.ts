@@ -4,7 +4,8 @@
  * replaces that output (and the plan), so only that output and the sum are recomputed; an
  * input-chain edit replaces `plan.input`, so every output is.
  */
-import { designBand } from '$core/design/cookbook';
+import { designBandBy } from '$core/design/band';
+import { withBoardDelays } from '$core/design/board-delay';
 import { designInput, designOutput, type DesignedOutput, type SourcedSection } from '$core/design/chain';
 import { cascadeWithGainDelay, outputResponse, sumResponses, type Response } from '$core/response/chain-response';
 import { normalizedOmega } from '$core/response/kernel';
@@ -45,6 +46,8 @@ export class ResponseCache {
   #outputs = new WeakMap<Output, { inputSections: SourcedSection[]; curve: OutputCurve }>();
   #bands = new WeakMap<Band, Response>();
   #lastSum: { parts: Response[]; sum: Response } | null = null;
+  /** What the designs depend on beyond the bands and outputs themselves: the plan's default design method and the board's delays. */
+  #planKey = '';
   readonly stats: CacheStats = { outputsComputed: 0, inputComputed: 0, sumsComputed: 0, bandsComputed: 0 };
 
   #setGrid(grid: Float64Array, sampleRate: number): void {
@@ -58,8 +61,20 @@ export class ResponseCache {
     this.#lastSum = null;
   }
 
-  frame(plan: Plan, grid: Float64Array, solo: readonly string[]): PlanFrame {
+  /**
+   * `exactDelays`: the outputs' exact delays; otherwise the delays the plan's board runs
+   * (src/design/board-delay.ts: whole samples under a profile in samples).
+   */
+  frame(plan: Plan, grid: Float64Array, solo: readonly string[], exactDelays = false): PlanFrame {
     this.#setGrid(grid, plan.sampleRate);
+    const key = `${plan.defaultDesign ?? ''}|${exactDelays ? 'exact' : `${plan.profile?.delayUnit ?? ''}@${plan.profile?.sampleRate ?? ''}`}`;
+    if (key !== this.#planKey) {
+      this.#planKey = key;
+      this.#inputKey = null;
+      this.#outputs = new WeakMap();
+      this.#bands = new WeakMap();
+      this.#lastSum = null;
+    }
     const omega = this.#omega!;
     const fs = plan.sampleRate;
     if (this.#inputKey !== plan.input) {
@@ -71,7 +86,8 @@ export class ResponseCache {
     const outputs = plan.outputs.map((o) => {
       const hit = this.#outputs.get(o);
       if (hit && hit.inputSections === this.#inputSections) return hit.curve;
-      const designed = designOutput(plan, o, this.#inputSections);
+      const exact = designOutput(plan, o, this.#inputSections);
+      const designed = exactDelays ? exact : withBoardDelays([exact], plan)[0];
       const curve: OutputCurve = { output: o, designed, response: outputResponse(designed, omega, fs) };
       this.#outputs.set(o, { inputSections: this.#inputSections, curve });
       this.stats.outputsComputed++;
@@ -92,10 +108,10 @@ export class ResponseCache {
   }
 
   /** One band's own response (unity gain, no delay) on the current grid. */
-  band(band: Band): Response {
+  band(band: Band, plan?: Plan): Response {
     const hit = this.#bands.get(band);
     if (hit) return hit;
-    const r = cascadeWithGainDelay(designBand(band, this.#sampleRate), 1, 0, this.#omega!, this.#sampleRate);
+    const r = cascadeWithGainDelay(designBandBy(band, this.#sampleRate, plan?.defaultDesign), 1, 0, this.#omega!, this.#sampleRate);
     this.#bands.set(band, r);
     this.stats.bandsComputed++;
     return r;
