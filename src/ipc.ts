@@ -42,6 +42,7 @@ export type HostResult<T> = { ok: true; value: T } | { ok: false; error: string 
 export type MenuCommand =
   | 'new'
   | 'open'
+  | 'openMeasurement'
   | 'save'
   | 'saveAs'
   | 'revert'
@@ -81,6 +82,7 @@ export interface CommandSpec {
 export const COMMAND_TABLE: readonly CommandSpec[] = [
   { id: 'new', label: '&New Plan', shortcuts: [{ key: 'N', mod: true }] },
   { id: 'open', label: '&Open…', shortcuts: [{ key: 'O', mod: true }] },
+  { id: 'openMeasurement', label: 'Open &Measurement…', shortcuts: [] },
   { id: 'save', label: '&Save', shortcuts: [{ key: 'S', mod: true }] },
   { id: 'saveAs', label: 'Save &As…', shortcuts: [{ key: 'S', mod: true, shift: true }] },
   { id: 'revert', label: 'Re&vert to Saved', shortcuts: [] },
