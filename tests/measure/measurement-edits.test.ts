@@ -125,3 +125,17 @@ describe('air temperature and the fields', () => {
     expect(parseGateMs('five').ok).toBe(false);
   });
 });
+
+describe('edits that keep the measurement list (a drag frame) still check the references', () => {
+  it('a kept list is not read again, but a reference to a measurement it lacks is refused; a new list is read in full', async () => {
+    const { updateOutput, validated } = await import('../../src/ui/edits');
+    const p = ok(addMeasurement(PLAN, FLAT, { fileName: 'wf.txt', kind: 'text' }, { kind: 'system' })).plan;
+    expect(validated({ ...p, name: 'renamed' }).ok).toBe(true);
+    const dangling = updateOutput(p, 'woofer', { driverMeasurementId: 'nothing' });
+    expect(dangling.ok ? '' : JSON.stringify(dangling.diagnostic)).toMatch(/driverMeasurementId/);
+    const both = updateOutput(p, 'woofer', { driverMeasurementId: p.measurements![0].id });
+    expect(both.ok ? '' : JSON.stringify(both.diagnostic)).toMatch(/systemMeasurementIds/);
+    const bad = validated({ ...p, measurements: [{ ...p.measurements![0], delayMs: Number.NaN }] });
+    expect(bad.ok).toBe(false);
+  });
+});

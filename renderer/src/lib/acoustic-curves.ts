@@ -11,11 +11,11 @@
  * the plan. The excess-phase display draws a measurement's phase with its delay removed (as the
  * plan stores it); predictions keep their full phase, which is what sums.
  */
-import { acousticOffsetMs, interpolateMeasurement, measurementResponse, predictedFromChain, type InterpolatedMeasurement } from '../../../src/measure/acoustic';
+import { acousticOffsetMs, driverOnGrid, interpolateMeasurement, measurementResponse, predictedFromChain, type InterpolatedMeasurement } from '../../../src/measure/acoustic';
 import { DEFAULT_AIR_TEMPERATURE_C, type Measurement, type Output } from '../../../src/plan/types';
 import { smoothMeasurement, type Smoothing } from '../../../src/measure/smooth';
 import { sumResponses, type Response } from '../../../src/response/chain-response';
-import { normalizedOmega } from '../../../src/response/kernel';
+import { normalizedOmega, type ComplexResponse } from '../../../src/response/kernel';
 import type { PlanFrame } from './response-cache';
 
 export interface AcousticCurve {
@@ -67,6 +67,8 @@ export class AcousticCache {
   #interpolated = new WeakMap<Measurement, { d: InterpolatedMeasurement; measured: Response }>();
   #smoothedCount = 0;
   #predicted = new WeakMap<Response, { d: InterpolatedMeasurement; offsetMs: number; r: Response }>();
+  /** Each driver's complex response on the grid, per offset: a drag changes the chain only. */
+  #drivers = new WeakMap<InterpolatedMeasurement, { offsetMs: number; c: ComplexResponse }>();
   #lastSum: { parts: Response[]; sum: Response } | null = null;
 
   /** How many measurements were smoothed and interpolated so far (tests: a drag adds none). */
@@ -98,6 +100,7 @@ export class AcousticCache {
       this.#omega = normalizedOmega(f.frequencies, plan.sampleRate);
       this.#interpolated = new WeakMap();
       this.#predicted = new WeakMap();
+      this.#drivers = new WeakMap();
       this.#lastSum = null;
     }
     const fs = plan.sampleRate;
@@ -111,7 +114,12 @@ export class AcousticCache {
       const offsetMs = acousticOffsetMs(c.output.acousticOffset, temperature);
       let p = this.#predicted.get(c.response);
       if (!p || p.d !== hit.d || p.offsetMs !== offsetMs) {
-        p = { d: hit.d, offsetMs, r: predictedFromChain(c.response, hit.d, offsetMs, this.#omega, fs) };
+        let drv = this.#drivers.get(hit.d);
+        if (!drv || drv.offsetMs !== offsetMs) {
+          drv = { offsetMs, c: driverOnGrid(hit.d, offsetMs, this.#omega, fs) };
+          this.#drivers.set(hit.d, drv);
+        }
+        p = { d: hit.d, offsetMs, r: predictedFromChain(c.response, hit.d, offsetMs, this.#omega, fs, drv.c) };
         this.#predicted.set(c.response, p);
       }
       curves.push({ output: c.output, index, measurement: m, measured: hit.measured, predicted: p.r });
