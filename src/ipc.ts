@@ -22,6 +22,7 @@ export const IPC = {
   initialDocument: 'plan:initial',
   setDirty: 'window:set-dirty',
   saveText: 'file:save-text',
+  openMeasurement: 'measurement:open',
   menuCommand: 'menu:command',
 } as const;
 
@@ -32,6 +33,12 @@ export interface PlanDocument {
 }
 
 export type RecoveryChoice = 'restore' | 'discard';
+
+/** A measurement file as read for the renderer's importer: its name (no folder) and its bytes. */
+export interface MeasurementFile {
+  fileName: string;
+  bytes: Uint8Array;
+}
 
 export type HostResult<T> = { ok: true; value: T } | { ok: false; error: string } | { ok: false; cancelled: true };
 
@@ -190,6 +197,11 @@ export interface DesktopApi {
   setDirty(dirty: boolean, title: string, path?: string | null): void;
   /** Save dialog for an export (text). */
   saveText(suggestedName: string, text: string, extensions: string[]): Promise<HostResult<string>>;
+  /**
+   * Shows an open dialog for a measurement file (text columns or a WAV impulse response) and
+   * reads it whole; the renderer's importer reads the bytes (a file it cannot read changes nothing).
+   */
+  openMeasurement(): Promise<HostResult<MeasurementFile>>;
   /** Subscribes to menu commands; returns an unsubscribe function. */
   onMenuCommand(listener: (command: MenuCommand) => void): () => void;
 }

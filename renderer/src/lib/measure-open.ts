@@ -1,9 +1,11 @@
 /**
- * The Open Measurement command: a file chooser for measurement files. In the browser and in
- * Electron alike it is the page's own file input (Electron shows the system's dialog for it); the
- * input is the one `MeasurementList` renders, registered here so the menu and keys reach it.
+ * The Open Measurement command: a file chooser for measurement files. The menu's command goes
+ * through the host (Electron: main's open dialog, which reads the file; browser: a file picker);
+ * the list's button uses its own file input, which a click may open anywhere.
  */
-import { importMeasurementBlob } from './measure-actions';
+import type { Host } from '../host/host';
+import { importMeasurementBlob, importMeasurementFile } from './measure-actions';
+import { viewState as view } from '../state/view.svelte';
 
 let input: HTMLInputElement | null = null;
 
@@ -15,9 +17,12 @@ export function registerMeasurementInput(el: HTMLInputElement): () => void {
   };
 }
 
-/** Shows the file chooser. */
-export function openMeasurementDialog(): void {
-  input?.click();
+/** Shows the host's file chooser and imports the chosen file (the import panel shows the outcome). */
+export async function openMeasurementDialog(host: Host | null): Promise<void> {
+  if (!host) return void input?.click();
+  const r = await host.openMeasurement();
+  if (r.ok) importMeasurementFile(r.value.fileName, r.value.bytes);
+  else if ('error' in r) view.notify('error', r.error);
 }
 
 /** Imports the files a file input or a drop gives, one after the other; the last one's panel stays open. */
