@@ -81,6 +81,22 @@ describe('importing a text file', () => {
     expect(doc.plan.measurements![0].phaseDeg).toEqual(importMeasurement('wf.txt', TEXT).phaseDeg);
   });
 
+  it('Escape closes the panel and the measurement stays; Escape in a gate field only puts its text back', () => {
+    importMeasurementFile('ir.wav', WAV);
+    flushSync();
+    const start = q('measure-gate-start') as HTMLInputElement;
+    start.focus();
+    start.value = '7';
+    start.dispatchEvent(new Event('input', { bubbles: true }));
+    start.dispatchEvent(new KeyboardEvent('keydown', { key: 'Escape', bubbles: true, cancelable: true }));
+    flushSync();
+    expect(q('measure-panel')).not.toBeNull();
+    q('measure-panel')!.dispatchEvent(new KeyboardEvent('keydown', { key: 'Escape', bubbles: true, cancelable: true }));
+    flushSync();
+    expect(q('measure-panel')).toBeNull();
+    expect(doc.plan.measurements![0].id).toBe('ir');
+  });
+
   it('a bad file shows the line and field and changes nothing', () => {
     const before = doc.plan;
     expect(importMeasurementFile('bad.txt', new TextEncoder().encode('100 0\n200 1\n150 2\n'))).toBe(false);
