@@ -121,7 +121,7 @@ describe('importing a WAV impulse response', () => {
     expect(q('measure-channel')).not.toBeNull();
     expect(q('measure-gate-start')).not.toBeNull();
     expect(setImportChannel(1)).toBe(true);
-    expect(setImportGate({ startMs: 1, lengthMs: 115 })).toBe(true);
+    expect(setImportGate({ startMs: 1, lengthMs: 115 })).toBeNull();
     const want = importMeasurement('ir.wav', WAV, { channel: 1, gate: { startMs: 1, lengthMs: 115 } });
     const m = doc.plan.measurements![0];
     expect(diff(m.magnitudeDb, want.magnitudeDb)).toBe(0);
@@ -132,11 +132,17 @@ describe('importing a WAV impulse response', () => {
 
   it('a bad gate is refused in the panel and the plan keeps the last good spectrum', () => {
     importMeasurementFile('ir.wav', WAV);
-    const before = doc.plan;
-    expect(setImportGate({ startMs: 5, lengthMs: 2 })).toBe(false);
     flushSync();
-    expect(ms.session!.problem).toMatch(/gate length 2 ms/);
-    expect(q('measure-problem')!.textContent).toMatch(/gate length/);
+    const before = doc.plan;
+    expect(setImportGate({ startMs: 5, lengthMs: 2 })).toMatch(/gate length 2 ms/);
+    // Typed in the panel: the field shows the reason in place.
+    const length = q('measure-gate-length') as HTMLInputElement;
+    length.focus();
+    length.value = '0.5';
+    length.dispatchEvent(new Event('input', { bubbles: true }));
+    length.dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true, cancelable: true }));
+    flushSync();
+    expect(q('measure-gate-length-error')!.textContent).toMatch(/gate length 0.5 ms/);
     expect(doc.plan).toBe(before);
   });
 

@@ -111,18 +111,20 @@ function reimport(next: ImportSession): boolean {
   return true;
 }
 
-/** A new gate for the open WAV import (ms before the peak, length); refused in the panel when bad. */
-export function setImportGate(gate: Pick<Gate, 'startMs' | 'lengthMs'>): boolean {
+/**
+ * A new gate for the open WAV import (ms before the peak, length). Returns null when applied, or
+ * the reason it was refused (the field that asked shows it; the plan keeps its last spectrum).
+ */
+export function setImportGate(gate: Pick<Gate, 'startMs' | 'lengthMs'>): string | null {
   const s = ms.session;
-  if (!s?.wav) return false;
+  if (!s?.wav) return 'no impulse response is being imported';
   try {
     resolveGate(gate);
   } catch (e) {
-    ms.session = { ...s, problem: (e as Error).message };
-    return false;
+    return (e as Error).message;
   }
   const g = { startMs: gate.startMs, lengthMs: gate.lengthMs };
-  return reimport({ ...s, wav: { ...s.wav, gate: g, window: impulseGate(s.wav.samples, s.wav.info.sampleRate, g) } });
+  return reimport({ ...s, wav: { ...s.wav, gate: g, window: impulseGate(s.wav.samples, s.wav.info.sampleRate, g) } }) ? null : (ms.session?.problem ?? 'not accepted');
 }
 
 /** Another channel (0-based) of the open WAV import. */
