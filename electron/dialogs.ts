@@ -15,6 +15,17 @@ export async function showOpenPlanDialog(win: BrowserWindow | undefined): Promis
   return result.canceled || result.filePaths.length === 0 ? null : result.filePaths[0];
 }
 
+export const MEASUREMENT_FILTERS = [
+  { name: 'Measurement (text columns, WAV impulse response)', extensions: ['txt', 'csv', 'frd', 'dat', 'wav', 'wave'] },
+  { name: 'All files', extensions: ['*'] },
+];
+
+/** The chosen measurement file, or null when cancelled. */
+export async function showOpenMeasurementDialog(win: BrowserWindow): Promise<string | null> {
+  const result = await dialog.showOpenDialog(win, { title: 'Open measurement', filters: MEASUREMENT_FILTERS, properties: ['openFile'] });
+  return result.canceled || result.filePaths.length === 0 ? null : result.filePaths[0];
+}
+
 /** Where to save a plan, or null when cancelled. */
 export async function showSavePlanDialog(win: BrowserWindow, defaultPath: string): Promise<string | null> {
   const options: SaveDialogOptions = {

@@ -147,6 +147,26 @@ export async function readPlanFile(path: string, fs: FileSystem = realFileSystem
 }
 
 /** `readPlanFile`, also giving the fingerprint of the bytes it read (see `DiskFingerprint`). */
+/** The largest measurement file read (a WAV impulse response of a few minutes at a high rate). */
+export const MAX_MEASUREMENT_FILE_BYTES = 256 * 1024 * 1024;
+
+/**
+ * A measurement file's name and bytes, for the renderer's importer (which says what is wrong with
+ * a file it cannot read); refused here only when it is no file or too large to read whole.
+ */
+export async function readMeasurementFile(path: string, fs: FileSystem = realFileSystem): Promise<FileResult<{ fileName: string; bytes: Uint8Array }>> {
+  const name = basename(path);
+  try {
+    const st = await fs.stat(path);
+    if (!st.isFile()) return { ok: false, error: `Cannot open "${name}": it is not a file.` };
+    if (st.size > MAX_MEASUREMENT_FILE_BYTES) return { ok: false, error: `Cannot open "${name}": ${st.size} bytes is too large for a measurement (at most ${MAX_MEASUREMENT_FILE_BYTES}).` };
+    const bytes = await fs.readFile(path);
+    return { ok: true, value: { fileName: name, bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) } };
+  } catch (e) {
+    return { ok: false, error: `Cannot open "${name}": ${describeFileError(e)}.` };
+  }
+}
+
 export async function readPlanFileTracked(path: string, fs: FileSystem = realFileSystem): Promise<FileResult<{ plan: Plan; disk: DiskFingerprint }>> {
   const name = basename(path);
   let bytes: Buffer;

@@ -10,8 +10,8 @@ import { join } from 'node:path';
 import { IPC, type HostResult, type PlanDocument } from '../src/ipc';
 import type { Plan } from '../src/plan/types';
 import { recoverablePath, type RecoveryStore } from './autosave';
-import { showExportDialog, showOpenPlanDialog } from './dialogs';
-import { isPlanPath, saveTextFile } from './files';
+import { showExportDialog, showOpenMeasurementDialog, showOpenPlanDialog } from './dialogs';
+import { isPlanPath, readMeasurementFile, saveTextFile } from './files';
 import { documentLabel } from './title';
 import {
   isAppUrl,
@@ -201,6 +201,15 @@ export function registerIpc(host: IpcHost): void {
     if (!path) return { ok: false, cancelled: true };
     const saved = await saveTextFile(path, t.value);
     return saved.ok ? { ok: true, value: saved.value } : { ok: false, error: saved.error };
+  });
+
+  // A measurement file: main asks where and reads the bytes; the renderer's importer reads them
+  // (and names the line or field of a file it refuses). No path reaches the page.
+  handle(IPC.openMeasurement, 0, async (state) => {
+    const path = await showOpenMeasurementDialog(state.win);
+    if (!path) return { ok: false, cancelled: true };
+    const read = await readMeasurementFile(path);
+    return read.ok ? { ok: true, value: read.value } : { ok: false, error: read.error };
   });
 
   ipcMain.on(IPC.setDirty, (event, ...args: unknown[]) => {

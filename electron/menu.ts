@@ -48,6 +48,7 @@ export function buildMenuTemplate(actions: MenuActions, options: MenuOptions): M
       commandItem(actions, 'new', mac),
       { label: 'New &Window', accelerator: 'CmdOrCtrl+Shift+N', click: () => actions.newWindow() },
       commandItem(actions, 'open', mac),
+      commandItem(actions, 'openMeasurement', mac),
       {
         label: 'Open &Recent',
         submenu: [

@@ -25,6 +25,7 @@ const api: DesktopApi = {
     else ipcRenderer.send(IPC.setDirty, dirty, title, path);
   },
   saveText: (suggestedName, text, extensions) => ipcRenderer.invoke(IPC.saveText, suggestedName, text, extensions),
+  openMeasurement: () => ipcRenderer.invoke(IPC.openMeasurement),
   onMenuCommand: (listener) => {
     if (typeof listener !== 'function') throw new TypeError('onMenuCommand: listener must be a function');
     const handler = (_event: IpcRendererEvent, command: unknown): void => {

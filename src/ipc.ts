@@ -22,6 +22,7 @@ export const IPC = {
   initialDocument: 'plan:initial',
   setDirty: 'window:set-dirty',
   saveText: 'file:save-text',
+  openMeasurement: 'measurement:open',
   menuCommand: 'menu:command',
 } as const;
 
@@ -33,6 +34,12 @@ export interface PlanDocument {
 
 export type RecoveryChoice = 'restore' | 'discard';
 
+/** A measurement file as read for the renderer's importer: its name (no folder) and its bytes. */
+export interface MeasurementFile {
+  fileName: string;
+  bytes: Uint8Array;
+}
+
 export type HostResult<T> = { ok: true; value: T } | { ok: false; error: string } | { ok: false; cancelled: true };
 
 /**
@@ -42,6 +49,7 @@ export type HostResult<T> = { ok: true; value: T } | { ok: false; error: string 
 export type MenuCommand =
   | 'new'
   | 'open'
+  | 'openMeasurement'
   | 'save'
   | 'saveAs'
   | 'revert'
@@ -81,6 +89,7 @@ export interface CommandSpec {
 export const COMMAND_TABLE: readonly CommandSpec[] = [
   { id: 'new', label: '&New Plan', shortcuts: [{ key: 'N', mod: true }] },
   { id: 'open', label: '&Open…', shortcuts: [{ key: 'O', mod: true }] },
+  { id: 'openMeasurement', label: 'Open &Measurement…', shortcuts: [] },
   { id: 'save', label: '&Save', shortcuts: [{ key: 'S', mod: true }] },
   { id: 'saveAs', label: 'Save &As…', shortcuts: [{ key: 'S', mod: true, shift: true }] },
   { id: 'revert', label: 'Re&vert to Saved', shortcuts: [] },
@@ -188,6 +197,11 @@ export interface DesktopApi {
   setDirty(dirty: boolean, title: string, path?: string | null): void;
   /** Save dialog for an export (text). */
   saveText(suggestedName: string, text: string, extensions: string[]): Promise<HostResult<string>>;
+  /**
+   * Shows an open dialog for a measurement file (text columns or a WAV impulse response) and
+   * reads it whole; the renderer's importer reads the bytes (a file it cannot read changes nothing).
+   */
+  openMeasurement(): Promise<HostResult<MeasurementFile>>;
   /** Subscribes to menu commands; returns an unsubscribe function. */
   onMenuCommand(listener: (command: MenuCommand) => void): () => void;
 }

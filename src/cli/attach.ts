@@ -1,54 +1,28 @@
 /**
- * `attach PLAN FILE (--output ID | --system) [--offset-mm N] [--name NAME]`: the plan with the
- * measurement in FILE (text columns, or a WAV impulse response with the importer's default gate
- * and first channel) added, written to stdout (the plan file itself is never changed). The
+ * `attach PLAN FILE (--output ID | --system) [--offset-mm N | --offset-ms N] [--channel N]
+ * [--gate START_MS,LENGTH_MS] [--name NAME]`: the plan with the measurement in FILE (text columns,
+ * or a WAV impulse response read as `measure` reads it: the first channel and the default gate
+ * unless chosen) added, written to stdout (the plan file itself is never changed). The
  * measurement becomes the output's driver measurement, or one of the plan's system measurements.
  * The result is read back through the plan reader before it is written, so stdout is always a
  * valid plan; anything the contract refuses is an input error naming the field.
  */
 import { measurementName, MeasurementFileError } from '../measure/errors';
 import { importMeasurement, measurementKind as bytesKind } from '../measure/import';
+import { measurementId, toPlanMeasurement } from '../measure/plan-measurement';
 import { parseMeasurementText } from '../measure/text';
 import type { MeasuredResponse } from '../measure/types';
 import { readPlanText, readPlanValue } from '../plan/read';
-import { LIMITS, PLAN_VERSION, type Measurement, type MeasurementKind, type Plan } from '../plan/types';
+import { PLAN_VERSION, type Measurement, type MeasurementKind, type Plan } from '../plan/types';
 import { planToJson, writePlanText } from '../plan/write';
 import { optNumber, optString, parseArgs, UsageError } from './args';
 import { InputError, type CliIo, type CliResult } from './io';
+import { channelOption, gateOption } from './measure';
 
 /** Where a new measurement goes. */
-export type AttachTarget = { output: string; offsetMm?: number } | { system: true };
+export type AttachTarget = { output: string; offsetMm?: number; offsetMs?: number } | { system: true };
 
-/**
- * A measurement id for `name`, unique in the plan: lower case, runs of other characters turned
- * into "-", at most 32 characters, "-2", "-3", ... appended on a clash.
- */
-export function measurementId(plan: Plan, name: string): string {
-  const taken = new Set((plan.measurements ?? []).map((m) => m.id));
-  const base =
-    name
-      .toLowerCase()
-      .replace(/[^a-z0-9_-]+/g, '-')
-      .replace(/^-+|-+$/g, '')
-      .slice(0, 32) || 'measurement';
-  if (!taken.has(base)) return base;
-  for (let k = 2; ; k++) {
-    const suffix = `-${k}`;
-    const id = base.slice(0, 32 - suffix.length) + suffix;
-    if (!taken.has(id)) return id;
-  }
-}
-
-/**
- * Notes as the plan keeps them: at most LIMITS.measurementNotesMax lines of at most
- * LIMITS.measurementNoteMaxLength characters, control characters (tabs aside) shown as spaces.
- * Notes are a file's header lines, not data, so trimming them loses nothing measured.
- */
-function planNotes(notes: readonly string[]): string[] {
-  return notes
-    .slice(0, LIMITS.measurementNotesMax)
-    .map((n) => n.replace(/[\u0000-\u0008\u000a-\u001f\u007f-\u009f\u2028\u2029]/g, ' ').slice(0, LIMITS.measurementNoteMaxLength));
-}
+export { measurementId };
 
 /**
  * The plan with `m` added as a measurement (a new id from its name) and referenced as `target`
@@ -56,17 +30,7 @@ function planNotes(notes: readonly string[]): string[] {
  * plan (the reader's message, with its field path) or the output does not exist.
  */
 export function attachMeasurement(plan: Plan, m: MeasuredResponse, source: { fileName: string; kind: MeasurementKind }, target: AttachTarget): Plan {
-  const measurement: Measurement = {
-    id: measurementId(plan, m.name),
-    name: m.name,
-    source: { fileName: source.fileName.split(/[\\/]/).pop() ?? '', kind: source.kind },
-    frequencyHz: m.frequencyHz.slice(),
-    magnitudeDb: m.magnitudeDb.slice(),
-    phaseDeg: m.phaseDeg === null ? null : m.phaseDeg.slice(),
-    phaseEstimated: m.phaseEstimated,
-    delayMs: m.delayMs,
-    notes: planNotes(m.notes),
-  };
+  const measurement: Measurement = { ...toPlanMeasurement(m, measurementId(plan, m.name), source), name: m.name };
   // A fresh plain copy in the file's shape: the caller's plan is not touched.
   const next = planToJson({ ...plan, version: PLAN_VERSION, measurements: [...(plan.measurements ?? []), measurement] });
   if ('system' in target) {
@@ -77,6 +41,7 @@ export function attachMeasurement(plan: Plan, m: MeasuredResponse, source: { fil
     if (!out) throw new InputError(`no output "${target.output}" (the plan has ${plan.outputs.map((o) => o.id).join(', ')})`);
     out.driverMeasurementId = measurement.id;
     if (target.offsetMm !== undefined) out.acousticOffset = { value: target.offsetMm, unit: 'mm' };
+    else if (target.offsetMs !== undefined) out.acousticOffset = { value: target.offsetMs, unit: 'ms' };
   }
   // Through the reader: the contract's checks (lengths, names, ranges) with their field paths.
   const checked = readPlanValue(next);
@@ -85,14 +50,20 @@ export function attachMeasurement(plan: Plan, m: MeasuredResponse, source: { fil
 }
 
 export function cmdAttach(argv: string[], io: CliIo): CliResult {
-  const args = parseArgs(argv, ['output', 'offset-mm', 'name'], ['system']);
+  const args = parseArgs(argv, ['output', 'offset-mm', 'offset-ms', 'channel', 'gate', 'name'], ['system']);
   if (args.positionals.length !== 2) throw new UsageError('attach takes a PLAN file and a measurement FILE');
   const [planPath, filePath] = args.positionals;
   const outputId = optString(args, 'output');
   const system = args.options.get('system') === true;
   if ((outputId === undefined) === !system) throw new UsageError('attach needs exactly one of --output ID (a driver measurement) or --system');
   const offsetMm = optNumber(args, 'offset-mm');
-  if (offsetMm !== undefined && system) throw new UsageError('--offset-mm belongs to an output (--output ID), not to a system measurement');
+  const offsetMs = optNumber(args, 'offset-ms');
+  if (offsetMm !== undefined && offsetMs !== undefined) throw new UsageError('give the acoustic offset once: --offset-mm or --offset-ms, not both');
+  if ((offsetMm !== undefined || offsetMs !== undefined) && system) {
+    throw new UsageError(`${offsetMm !== undefined ? '--offset-mm' : '--offset-ms'} belongs to an output (--output ID), not to a system measurement`);
+  }
+  const channel = channelOption(args);
+  const gate = gateOption(args);
   const name = optString(args, 'name');
 
   const planText = readOrFail(io, planPath);
@@ -111,9 +82,11 @@ export function cmdAttach(argv: string[], io: CliIo): CliResult {
     if (io.readBytes) {
       const bytes = readBytesOrFail(io, filePath);
       kind = bytesKind(bytes);
-      m = importMeasurement(filePath, bytes);
+      if (kind === 'text' && (channel !== undefined || gate !== undefined)) throw new UsageError('--channel and --gate apply to WAV impulse responses only');
+      m = importMeasurement(filePath, bytes, { channel, gate });
     } else {
       if (/\.wave?$/i.test(filePath)) throw new InputError(`${filePath}: this host reads text files only; WAV impulse responses need the command line's file reader`);
+      if (channel !== undefined || gate !== undefined) throw new UsageError('--channel and --gate apply to WAV impulse responses only');
       kind = 'text';
       m = parseMeasurementText(readOrFail(io, filePath), measurementName(filePath));
     }
@@ -123,7 +96,7 @@ export function cmdAttach(argv: string[], io: CliIo): CliResult {
   }
   if (name !== undefined) m = { ...m, name };
   const fileName = filePath.split(/[\\/]/).pop() ?? filePath;
-  const target: AttachTarget = system ? { system: true } : { output: outputId!, offsetMm };
+  const target: AttachTarget = system ? { system: true } : { output: outputId!, offsetMm, offsetMs };
   const next = attachMeasurement(plan, m, { fileName, kind }, target);
   const added = next.measurements![next.measurements!.length - 1];
   const where = system ? 'as a system measurement' : `as the driver measurement of output "${outputId}"`;

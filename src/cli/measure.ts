@@ -14,7 +14,8 @@ import type { Gate } from '../measure/gate';
 import { optChoice, optString, parseArgs, UsageError, type ParsedArgs } from './args';
 import { InputError, type CliIo, type CliResult } from './io';
 
-function channelOption(args: ParsedArgs): number | undefined {
+/** `--channel N` (from 1) as a 0-based channel; shared with `attach`. */
+export function channelOption(args: ParsedArgs): number | undefined {
   const v = optString(args, 'channel');
   if (v === undefined) return undefined;
   const n = Number(v);
@@ -22,7 +23,8 @@ function channelOption(args: ParsedArgs): number | undefined {
   return n - 1;
 }
 
-function gateOption(args: ParsedArgs): Gate | undefined {
+/** `--gate START_MS,LENGTH_MS`; shared with `attach`. */
+export function gateOption(args: ParsedArgs): Gate | undefined {
   const v = optString(args, 'gate');
   if (v === undefined) return undefined;
   const parts = v.split(',').map((s) => s.trim());

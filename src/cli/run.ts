@@ -60,10 +60,10 @@ export const COMMAND_USAGE: Record<string, string> = {
       imported: JSON {name, frequencyHz, magnitudeDb, phaseDeg, phaseEstimated, delayMs, notes}
       or CSV frequencyHz,magnitudeDb,phaseDeg; WAV: --channel from 1 (default 1), --gate ms
       before the peak and length (default 2,500); --min-phase: phase estimated from magnitude`,
-  attach: `  attach PLAN FILE (--output ID | --system) [--offset-mm N] [--name NAME]
-      the plan with the measurement in FILE (text columns, or a WAV impulse response: first
-      channel, default gate) added as the output's driver measurement or as a system
-      measurement, written to stdout`,
+  attach: `  attach PLAN FILE (--output ID | --system) [--offset-mm N | --offset-ms N] [--channel N] [--gate START_MS,LENGTH_MS] [--name NAME]
+      the plan with the measurement in FILE (text columns, or a WAV impulse response: channel
+      and gate as measure reads them) added as the output's driver measurement (with its
+      acoustic offset in mm or ms) or as a system measurement, written to stdout`,
   retarget: `  retarget PLAN --sample-rate HZ [--method bilinear|matched] [--tolerance DB]
       the plan at another sample rate, written to stdout; on stderr how far each band and edge
       moves (largest dB difference over 20 Hz - 20 kHz); --method matched: bands moving more

@@ -211,7 +211,7 @@ function predictedResponse(chainOf: DesignedOutput, d: InterpolatedMeasurement, 
  * (`omega` = 2 pi f / fs, as `normalizedOmega` gives), its driver measurement interpolated on that
  * grid, and its acoustic offset in ms. For callers that cache chain responses (the app).
  */
-export function predictedFromChain(c: Response, d: InterpolatedMeasurement, offsetMs: number, omega: Float64Array, fs: number): Response {
+export function predictedFromChain(c: Response, d: InterpolatedMeasurement, offsetMs: number, omega: Float64Array, fs: number, driver?: ComplexResponse): Response {
   const n = omega.length;
   const offsetSamples = (offsetMs * fs) / 1000;
   const msPerSample = 1000 / fs;
@@ -222,7 +222,7 @@ export function predictedFromChain(c: Response, d: InterpolatedMeasurement, offs
   complex.log2Scale.set(c.complex.log2Scale.subarray(0, n));
   complex.groupDelaySamples.set(c.complex.groupDelaySamples.subarray(0, n));
   complex.logSlope.set(c.complex.logSlope.subarray(0, n));
-  multiplyComplexInto(complex, driverComplex(d, omega, offsetSamples, fs), n);
+  multiplyComplexInto(complex, driver ?? driverComplex(d, omega, offsetSamples, fs), n);
   const r: Response = {
     magnitudeDb: new Float64Array(n),
     phaseRad: new Float64Array(n),
@@ -277,6 +277,11 @@ export function measurementResponse(d: InterpolatedMeasurement, sampleRateHz: nu
   }
   const complex = driverComplex(d, new Float64Array(n), 0, sampleRateHz);
   return { magnitudeDb: d.magnitudeDb, phaseRad, phaseUnwrappedRad: d.phaseRad, groupDelayMs: d.groupDelayMs, logSlope, groupDelaySamples, complex };
+}
+
+/** The driver's complex response on the grid with its offset delay, as `predictedFromChain` multiplies it in. */
+export function driverOnGrid(d: InterpolatedMeasurement, offsetMs: number, omega: Float64Array, fs: number): ComplexResponse {
+  return driverComplex(d, omega, (offsetMs * fs) / 1000, fs);
 }
 
 /**

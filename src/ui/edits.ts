@@ -14,6 +14,7 @@ import {
   type BandType,
   type Crossover,
   type EdgeKind,
+  type Measurement,
   type Output,
   type Plan,
 } from '../plan/types';
@@ -33,10 +34,27 @@ const noOutput = (outputId: string) => ({ ok: false as const, diagnostic: diagno
 export type ChainRef = string;
 export const INPUT: ChainRef = 'input';
 
+/**
+ * Measurement lists the reader has accepted, each with a stand-in that holds only what the rest
+ * of the plan refers to (the ids). Plans here are never mutated, so a list that is the same object
+ * as one accepted before still holds the same values: an edit that leaves it alone (every drag
+ * frame) reads its ids again, not its thousands of numbers.
+ */
+const acceptedLists = new WeakMap<readonly Measurement[], Measurement[]>();
+
+function standIn(m: Measurement): Measurement {
+  return { id: m.id, name: 'm', source: { fileName: '', kind: 'generated' }, frequencyHz: [1, 2], magnitudeDb: [0, 0], phaseDeg: null, phaseEstimated: false, delayMs: 0, notes: [] };
+}
+
 /** Checks a whole edited plan with the reader; keeps the edited object (its structural sharing). */
 export function validated(plan: Plan): EditResult {
-  const r = readPlanValue(plan);
-  if (r.ok) return { ok: true, plan };
+  const list = plan.measurements;
+  const known = list ? acceptedLists.get(list) : undefined;
+  const r = readPlanValue(known ? { ...plan, measurements: known } : plan);
+  if (r.ok) {
+    if (list && !known) acceptedLists.set(list, list.map(standIn));
+    return { ok: true, plan };
+  }
   return { ok: false, diagnostic: r.error.diagnostic };
 }
 

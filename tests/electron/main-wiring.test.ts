@@ -207,6 +207,27 @@ describe('open and save', () => {
     expect(menuItem('Open Recent').submenu[0].label).toContain('monitor.bqplan');
   });
 
+  it('opens a measurement through its own dialog: its name and bytes, no path; a folder or a file that is not there is refused', async () => {
+    await boot();
+    const [win] = fake.windows;
+    const file = join(root, 'woofer 1m.txt');
+    await writeFile(file, '100 0\n1000 -1\n');
+    fake.dialog.open.push(file);
+    const r = await invoke(win, IPC.openMeasurement, []);
+    expect(r.ok).toBe(true);
+    expect(r.value.fileName).toBe('woofer 1m.txt');
+    expect(new TextDecoder().decode(r.value.bytes)).toBe('100 0\n1000 -1\n');
+    expect(JSON.stringify(r.value)).not.toContain(root);
+    const shown = fake.dialog.shown[fake.dialog.shown.length - 1];
+    expect(shown.options.filters[0].extensions).toEqual(expect.arrayContaining(['txt', 'wav']));
+    fake.dialog.open.push(root);
+    expect((await invoke(win, IPC.openMeasurement, [])).error).toMatch(/it is not a file/);
+    fake.dialog.open.push(join(root, 'gone.wav'));
+    expect((await invoke(win, IPC.openMeasurement, [])).error).toMatch(/^Cannot open "gone.wav"/);
+    expect(await invoke(win, IPC.openMeasurement, [])).toEqual({ ok: false, cancelled: true });
+    await expect(invoke(win, IPC.openMeasurement, ['/etc/passwd'])).rejects.toThrow(/expected 0 argument/);
+  });
+
   it('opens a plan through the dialog; a broken one is refused with the field path and left as it was', async () => {
     await boot();
     const [win] = fake.windows;

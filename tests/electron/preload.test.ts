@@ -34,7 +34,7 @@ describe('preload', async () => {
     expect(Object.keys(exposed)).toEqual(['biquadrant']);
     expect(Object.keys(api).sort()).toEqual(
       [
-        'autosave', 'discardRecovery', 'initialDocument', 'onMenuCommand', 'openPlan', 'openRecent', 'revertPlan',
+        'autosave', 'discardRecovery', 'initialDocument', 'onMenuCommand', 'openMeasurement', 'openPlan', 'openRecent', 'revertPlan',
         'savePlan', 'savePlanAs', 'saveText', 'setDirty', 'settleRecovery', 'takeRecovery',
       ].sort(),
     );
@@ -55,6 +55,7 @@ describe('preload', async () => {
     await api.settleRecovery('restore');
     await api.initialDocument();
     await api.saveText('c.txt', 'b0', ['txt']);
+    await api.openMeasurement();
     api.setDirty(true, 'Plan');
     api.setDirty(false, 'Plan', null);
     expect(calls).toEqual([
@@ -69,6 +70,7 @@ describe('preload', async () => {
       { kind: 'invoke', channel: IPC.settleRecovery, args: ['restore'] },
       { kind: 'invoke', channel: IPC.initialDocument, args: [] },
       { kind: 'invoke', channel: IPC.saveText, args: ['c.txt', 'b0', ['txt']] },
+      { kind: 'invoke', channel: IPC.openMeasurement, args: [] },
       { kind: 'send', channel: IPC.setDirty, args: [true, 'Plan'] },
       { kind: 'send', channel: IPC.setDirty, args: [false, 'Plan', null] },
     ]);

@@ -6,7 +6,7 @@ import { flushSync, mount, tick, unmount } from 'svelte';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import demoText from '../../assets/two-way-monitor.bqplan?raw';
 import hallText from '../../assets/three-way-hall.bqplan?raw';
-import type { HostResult, MenuCommand, PlanDocument } from '../../src/ipc';
+import type { HostResult, MeasurementFile, MenuCommand, PlanDocument } from '../../src/ipc';
 import { readPlanText } from '../../src/plan/read';
 import type { Plan } from '../../src/plan/types';
 import App from '../../renderer/src/App.svelte';
@@ -67,6 +67,10 @@ class FakeHost implements Host {
   }
   async copyText() {
     return { ok: true as const, value: true as const };
+  }
+  nextMeasurement: HostResult<MeasurementFile> = { ok: false, cancelled: true };
+  async openMeasurement() {
+    return this.nextMeasurement;
   }
   onMenuCommand(l: (c: MenuCommand) => void) {
     this.menu = l;
@@ -360,6 +364,31 @@ describe('files through the host', () => {
     const notice = target.querySelector('[data-testid="notice"]');
     expect(notice?.getAttribute('role')).toBe('alert');
     expect(notice?.textContent).toMatch(/outputs\[0\]\.bands\[0\]\.q: must be > 0/);
+  });
+
+  it('Open Measurement (menu) imports the file the host read: on the plot and in the list; a file it cannot read changes nothing', async () => {
+    await start();
+    const before = doc.plan;
+    host.nextMeasurement = { ok: true, value: { fileName: 'bad.txt', bytes: new TextEncoder().encode('100 0\n100 1\n') } };
+    host.menu!('openMeasurement');
+    for (let i = 0; i < 5; i++) await tick();
+    flushSync();
+    expect(doc.plan).toBe(before);
+    expect(target.querySelector('[data-testid="measure-error"]')?.textContent).toMatch(/^line 2: /);
+    host.nextMeasurement = { ok: true, value: { fileName: 'room.txt', bytes: new TextEncoder().encode('20 3\n200 0\n2000 -1\n') } };
+    host.menu!('openMeasurement');
+    for (let i = 0; i < 5; i++) await tick();
+    flushSync();
+    expect(doc.plan.measurements?.map((m) => m.id)).toEqual(['room']);
+    expect(doc.plan.systemMeasurementIds).toEqual(['room']);
+    expect(target.querySelectorAll('[data-testid="measurement-row"]')).toHaveLength(1);
+    expect(target.querySelector('[data-testid="measure-caution"]')).not.toBeNull();
+    host.nextMeasurement = { ok: false, error: 'Cannot open "x.wav": permission denied.' };
+    host.menu!('openMeasurement');
+    for (let i = 0; i < 5; i++) await tick();
+    flushSync();
+    expect(target.querySelector('[data-testid="notice"]')?.textContent).toMatch(/permission denied/);
+    expect(doc.plan.measurements).toHaveLength(1);
   });
 
   it('menu commands switch views and create a fresh plan with one full-range output', async () => {

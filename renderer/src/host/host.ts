@@ -70,6 +70,7 @@ export function desktopHost(api: DesktopApi): Host {
     initialDocument: () => api.initialDocument(),
     setDirty: (dirty, title, path) => api.setDirty(dirty, title, path),
     saveText: (name, text, ext) => api.saveText(name, text, ext),
+    openMeasurement: () => api.openMeasurement(),
     copyText: copyWithClipboard,
     onMenuCommand: (listener) => api.onMenuCommand(listener),
   };
@@ -352,6 +353,15 @@ export function browserHost(options: BrowserHostOptions = {}): Host {
       handles.delete(file.name); // a file from the picker has no handle: the next save asks where
       const note = keepCopy(file.name, text);
       return note ? { ok: true, value: { plan: r.plan, path: file.name }, note } : { ok: true, value: { plan: r.plan, path: file.name } };
+    },
+    async openMeasurement() {
+      const file = await pickFile('.txt,.csv,.frd,.dat,.wav,.wave,text/plain,text/csv,audio/wav');
+      if (!file) return { ok: false, cancelled: true };
+      try {
+        return { ok: true, value: { fileName: file.name, bytes: new Uint8Array(await file.arrayBuffer()) } };
+      } catch (e) {
+        return { ok: false, error: `${file.name}: cannot read the file (${message(e)})` };
+      }
     },
     async savePlan(plan, path) {
       if (picker) return writeThroughPicker(plan, planFileName(plan, path), path ? (handles.get(path) ?? null) : null);

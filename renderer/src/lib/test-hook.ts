@@ -48,6 +48,8 @@ export interface TestHook {
   /** The Z-plane's shown window (real, imaginary), or null when that view is not open. */
   zplaneWindow: () => { x: [number, number]; y: [number, number] } | null;
   cacheStats: () => (CacheStats & { chartUpdates: number; baseDraws: number; overlayDraws: number }) | null;
+  /** The Time view's gate plot of a WAV file being imported: the impulse response and the gate as drawn, or null. */
+  gatePlot: () => { id: string; y: number[] }[] | null;
   /** Milliseconds per drag frame, appended as frames are painted. */
   frameTimes: number[];
   /** Count of plot updates (each redraws the three plots). */
@@ -76,6 +78,7 @@ export const testHook: TestHook = {
   magnitudePoint: () => null,
   zplaneWindow: () => null,
   cacheStats: () => null,
+  gatePlot: () => null,
   frameTimes: [],
   plotUpdates: 0,
   drawTimes: [],

@@ -21,10 +21,28 @@ function planText(plan: Plan): string {
   return t;
 }
 
-/** Same content: the same object, or objects that would save to the same file. */
+/** The plan's text without its measurements (kept per plan, like planText). */
+const restTextOf = new WeakMap<Plan, string>();
+function planTextWithoutMeasurements(plan: Plan): string {
+  let t = restTextOf.get(plan);
+  if (t === undefined) {
+    const rest = { ...plan };
+    delete rest.measurements;
+    t = JSON.stringify(planToJson(rest));
+    restTextOf.set(plan, t);
+  }
+  return t;
+}
+
+/**
+ * Same content: the same object, or objects that would save to the same file. Plans that share
+ * one measurement list (every edit but a measurement's own) compare without it: measurements hold
+ * thousands of numbers, and writing them out on every drag frame cost the frame several ms.
+ */
 export function samePlan(a: Plan | null, b: Plan | null): boolean {
   if (a === b) return true;
   if (a === null || b === null) return false;
+  if (a.measurements !== undefined && a.measurements === b.measurements) return planTextWithoutMeasurements(a) === planTextWithoutMeasurements(b);
   return planText(a) === planText(b);
 }
 
