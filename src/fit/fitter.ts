@@ -62,7 +62,7 @@ export interface FitOptions {
   levelDb?: number;
   /** A low shelf at the range's low end and a high shelf at its high end, besides the peaking bands. */
   shelves: boolean;
-  /** dB: a smaller largest deviation gets no more bands (default 0.25). */
+  /** dB: no more bands once the largest deviation is below this or half the tolerance (default 0.25). */
   minDeviationDb: number;
   /** dB, the tolerance the report measures the result against (default 1). */
   toleranceDb: number;
@@ -176,7 +176,8 @@ class Model {
     this.basePower = problem.baseDb.map((d) => Math.pow(10, d / 10));
     this.target = problem.targetDb.map((t) => t + levelDb);
     this.weight = weight;
-    this.penaltyWeight = Math.sqrt(10 / g.perOctave);
+    this.watched = Int32Array.from({ length: g.last - g.first + 1 }, (_, i) => g.first + i);
+    this.penaltyWeight = Math.sqrt(1000 / g.perOctave);
   }
 
   bandDb(slot: Slot, p: ArrayLike<number>, off: number, into: Float64Array, sign = 1): void {
@@ -185,8 +186,11 @@ class Model {
   }
 
   /** The bands' summed level at each grid point. */
+  /** The summed level of bands held fixed while others are refined (none: null). */
+  fixedDb: Float64Array | null = null;
+
   bandsDb(slots: readonly Slot[], p: ArrayLike<number>): Float64Array {
-    const sum = new Float64Array(this.n);
+    const sum = this.fixedDb ? this.fixedDb.slice() : new Float64Array(this.n);
     slots.forEach((s, k) => this.bandDb(s, p, k * P, sum));
     return sum;
   }
@@ -205,16 +209,19 @@ class Model {
     return { level, power };
   }
 
-  /** The weighted residuals: per grid point the error, then per grid point the added-gain penalty. */
+  /** Grid points watched for the added-gain penalty: every point inside the range. */
+  watched: Int32Array = new Int32Array(0);
+
+  /** The weighted residuals: per grid point the error, then per watched point the added-gain penalty. */
   residuals(slots: readonly Slot[], p: ArrayLike<number>): Float64Array {
     const bands = this.bandsDb(slots, p);
     const { level } = this.smoothed(bands);
-    const r = new Float64Array(2 * this.n);
-    for (let i = 0; i < this.n; i++) {
-      r[i] = this.weight[i] > 0 ? Math.sqrt(this.weight[i]) * (level[i] - this.target[i]) : 0;
+    const r = new Float64Array(this.n + this.watched.length);
+    for (let i = 0; i < this.n; i++) r[i] = this.weight[i] > 0 ? Math.sqrt(this.weight[i]) * (level[i] - this.target[i]) : 0;
+    this.watched.forEach((i, w) => {
       const over = bands[i] - this.options.maxAddedGainDb;
-      r[this.n + i] = over > 0 ? this.penaltyWeight * over : 0;
-    }
+      r[this.n + w] = over > 0 ? this.penaltyWeight * over : 0;
+    });
     return r;
   }
 
@@ -230,7 +237,7 @@ class Model {
       for (let e = op.start[i]; e < op.start[i + 1]; e++) s += op.w[e] * power[op.cols[e]];
       denom[i] = s;
     }
-    const rows: Float64Array[] = Array.from({ length: 2 * n }, () => new Float64Array(p.length));
+    const rows: Float64Array[] = Array.from({ length: n + this.watched.length }, () => new Float64Array(p.length));
     const plus = new Float64Array(n);
     const minus = new Float64Array(n);
     const q = p.slice();
@@ -254,8 +261,10 @@ class Model {
             for (let e = op.start[i]; e < op.start[i + 1]; e++) s += op.w[e] * power[op.cols[e]] * plus[op.cols[e]];
             rows[i][idx] = (Math.sqrt(this.weight[i]) * s) / denom[i];
           }
-          if (bands[i] > this.options.maxAddedGainDb) rows[n + i][idx] = this.penaltyWeight * plus[i];
         }
+        this.watched.forEach((i, w) => {
+          if (bands[i] > this.options.maxAddedGainDb) rows[n + w][idx] = this.penaltyWeight * plus[i];
+        });
       }
     });
     return rows;
@@ -264,7 +273,7 @@ class Model {
   /** Refines every parameter together with Levenberg-Marquardt within [lo, hi]. */
   refine(slots: readonly Slot[], p: number[], lo: number[], hi: number[], maxIterations: number, tick: () => void): number[] {
     if (slots.length === 0) return p;
-    const m = 2 * this.n;
+    const m = this.n + this.watched.length;
     const x = new Float64Array(m);
     for (let i = 0; i < m; i++) x[i] = i;
     const y = new Float64Array(m);
@@ -280,7 +289,8 @@ class Model {
       tick();
       this.iterations++;
       const rows = this.jacobian(slots, params);
-      return (i: number) => Array.from(rows[i]);
+      // The library only indexes the partials: the row itself serves, uncopied.
+      return (i: number) => rows[i] as unknown as number[];
     };
     const result = levenbergMarquardt({ x, y }, model, {
       initialValues: p,
@@ -391,7 +401,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   let lo: number[] = [];
   let hi: number[] = [];
   const budget = Math.max(0, Math.floor(options.bands));
-  const totalIterations = Math.max(1, budget * 6 + 105);
+  const totalIterations = Math.max(1, budget * 10 + 105);
   const tick = () => {
     if (hooks.aborted?.()) throw new FitAborted();
     hooks.progress?.(Math.min(0.99, model.iterations / totalIterations));
@@ -426,10 +436,13 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   while (slots.length < budget) {
     const e = errorNow();
     let best = -1;
-    let bestAbs = options.minDeviationDb;
+    // No band for a deviation already within half the tolerance (or minDeviationDb, if larger).
+    let bestAbs = Math.max(options.minDeviationDb, options.toleranceDb / 2);
+    const used = model.bandsDb(slots, p);
     for (let i = g.first; i <= g.last; i++) {
       if (!(weight[i] > 0)) continue;
       if (declined[i] && e[i] < 0) continue; // no boost into a null
+      if (e[i] < 0 && used[i] > options.maxAddedGainDb - 0.5) continue; // no boost left to give here
       if (Math.abs(e[i]) > bestAbs) {
         bestAbs = Math.abs(e[i]);
         best = i;
@@ -448,24 +461,43 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
     p.push(Math.log2(freqs[best]), Math.min(options.maxBoostDb, Math.max(-options.maxCutDb, -dev)), Math.min(hq, Math.max(lq, Math.log2(q))));
     lo.push(lf, -options.maxCutDb, lq);
     hi.push(hf, options.maxBoostDb, hq);
-    p = model.refine(slots, p, lo, hi, 6, tick);
+    // The new band alone first (the others held), then every band together now and then: the
+    // cost of a joint step grows with the square of the band count.
+    const k = slots.length - 1;
+    model.fixedDb = model.bandsDb(slots.slice(0, k), p.slice(0, k * P));
+    const mine = model.refine([slots[k]], p.slice(k * P), lo.slice(k * P), hi.slice(k * P), 8, tick);
+    model.fixedDb = null;
+    p.splice(k * P, P, ...mine);
+    if (slots.length % 4 === 0) p = model.refine(slots, p, lo, hi, 6, tick);
   }
 
   // Every parameter together.
+  const greedy = p.slice();
   p = model.refine(slots, p, lo, hi, 60, tick);
 
   // Toward the tolerance: least squares lets a few points stay far out while the rest are close.
   // Points still beyond most of the tolerance weigh more, and the bands are refined again
-  // (iteratively reweighted least squares toward the minimax fit, as in Lawson's algorithm). The
-  // parameters kept are those with the smallest largest error (then the smallest RMS), on the
-  // original weights, whichever round gave them.
+  // (iteratively reweighted least squares toward the minimax fit, as in Lawson's algorithm).
+  // The parameters kept are the candidate (the greedy start, the joint refinement, each
+  // reweighted round) with the least error beyond the tolerance (then the smallest RMS), on the
+  // original weights, any excess of added gain counting heavily against it.
   const near = 0.7 * options.toleranceDb;
   const score = (params: number[]) => {
-    const e = model.smoothed(model.bandsDb(slots, params)).level.map((x, i) => x - model.target[i]);
-    const f = figures(e, weight, freqs);
-    return [Math.max(f.maxDb, options.toleranceDb), f.rmsDb];
+    const sum = model.bandsDb(slots, params);
+    const e = model.smoothed(sum).level.map((x, i) => x - model.target[i]);
+    let excess = 0;
+    for (let i = g.first; i <= g.last; i++) if (weight[i] > 0) excess += weight[i] * Math.pow(Math.max(0, Math.abs(e[i]) - options.toleranceDb), 2);
+    let over = 0;
+    for (const x of sum) over = Math.max(over, x - options.maxAddedGainDb);
+    return [excess + 100 * over * over, figures(e, weight, freqs).rmsDb];
   };
-  let best = { p, s: score(p) };
+  const better = (a: number[], b: number[]) => a[0] < b[0] - 1e-12 || (Math.abs(a[0] - b[0]) <= 1e-12 && a[1] < b[1]);
+  let best = { p: greedy, s: score(greedy) };
+  const consider = (params: number[]) => {
+    const sc = score(params);
+    if (better(sc, best.s)) best = { p: params, s: sc };
+  };
+  consider(p);
   for (let round = 0; round < 3 && slots.length > 0; round++) {
     const e = errorNow();
     let outside = false;
@@ -477,10 +509,9 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
     }
     if (!outside) break;
     p = model.refine(slots, p, lo, hi, 15, tick);
-    const s = score(p);
-    if (s[0] < best.s[0] || (s[0] === best.s[0] && s[1] < best.s[1])) best = { p, s };
+    consider(p);
   }
-  p = best.p;
+  p = best.p.slice();
 
   // Bands that ended at (almost) no gain do nothing: drop them.
   const keep = slots.map((_, k) => Math.abs(p[k * P + 1]) >= 0.05);
@@ -491,18 +522,56 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   slots.length = 0;
   slots.push(...keptSlots);
 
-  // The added-gain limit, enforced exactly: scale the boosts down while the sum passes it.
-  let addedGain = maxAddedGain(model, slots, p);
-  let headroomBound = addedGain > options.maxAddedGainDb - 1e-6;
-  for (let guard = 0; guard < 30 && addedGain > options.maxAddedGainDb; guard++) {
-    const factor = Math.max(0, options.maxAddedGainDb / addedGain - 1e-3);
-    for (let k = 0; k < slots.length; k++) if (p[k * P + 1] > 0) p[k * P + 1] *= factor;
-    addedGain = maxAddedGain(model, slots, p);
+  // The added-gain limit, enforced exactly: where the bands' summed level passes it most, the
+  // boosts that make up that level are lowered in proportion to their share, until nothing passes.
+  // After a repair the other parameters are refined once more with those boosts as their upper
+  // bounds (cuts, frequencies and Q take up what the boosts gave back), then repaired again.
+  let added = maxAddedGain(model, slots, p);
+  let headroomBound = added.db > options.maxAddedGainDb - 1e-3;
+  const repair = () => {
+    let changed = false;
+    for (let guard = 0; guard < 200 && added.db > options.maxAddedGainDb; guard++) {
+      const shares = slots.map((s, k) => (p[k * P + 1] > 0 ? Math.max(0, levelAt(model, s, p, k, added.hz)) : 0));
+      const total = shares.reduce((a, b) => a + b, 0);
+      if (!(total > 0)) break;
+      const excess = added.db - options.maxAddedGainDb + 1e-3;
+      slots.forEach((_, k) => {
+        if (shares[k] > 0) p[k * P + 1] *= Math.max(0, 1 - excess / total);
+      });
+      added = maxAddedGain(model, slots, p);
+      changed = true;
+    }
+    return changed;
+  };
+  if (repair()) {
     headroomBound = true;
+    // Refined on the original weights; kept only if it scores better once repaired in turn.
+    const repaired = { p: p.slice(), added };
+    model.weight.set(weight);
+    const capped = hi.map((h, i) => (i % P === 1 && p[i] > 0 ? Math.min(h, p[i]) : h));
+    p = model.refine(slots, p, lo, capped, 15, tick);
+    added = maxAddedGain(model, slots, p);
+    repair();
+    if (!better(score(p), score(repaired.p))) {
+      p = repaired.p;
+      added = repaired.added;
+    }
   }
+  let addedGain = added.db;
 
-  const e = errorNow();
-  const after = figures(e, weight, freqs);
+  let e = errorNow();
+  let after = figures(e, weight, freqs);
+  // Never worse than no bands at all (a fit the limits leave worse than nothing is no fit).
+  if (after.rmsDb > before.rmsDb && slots.length > 0) {
+    slots.length = 0;
+    p = [];
+    lo = [];
+    hi = [];
+    addedGain = 0;
+    headroomBound = false;
+    e = errorNow();
+    after = figures(e, weight, freqs);
+  }
   const errorDb = new Float64Array(n).fill(NaN);
   for (let i = g.first; i <= g.last; i++) errorDb[i] = e[i];
 
@@ -539,19 +608,34 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   };
 }
 
-/** The largest summed level of the bands: on the grid and at each band's own frequency. */
-function maxAddedGain(model: Model, slots: readonly Slot[], p: number[]): number {
-  if (slots.length === 0) return 0;
-  let max = Math.max(0, ...model.bandsDb(slots, p));
+/** One band's level (dB) at one frequency. */
+function levelAt(model: Model, s: Slot, p: number[], k: number, hz: number): number {
+  const band: Band = { id: 'fit', type: s.type, frequency: Math.pow(2, p[k * P]), gainDb: p[k * P + 1], q: Math.pow(2, p[k * P + 2]), enabled: true };
+  const one = new Float64Array(1);
+  const trig = gridTrig([hz], model.problem.sampleRateHz);
+  for (const sec of designBand(band, model.problem.sampleRateHz)) addSectionDb(sec, trig, one);
+  return one[0];
+}
+
+/** The largest summed level of the bands and where: on the grid and at each band's own frequency. */
+function maxAddedGain(model: Model, slots: readonly Slot[], p: number[]): { db: number; hz: number } {
+  let best = { db: 0, hz: NaN };
+  if (slots.length === 0) return best;
+  const sum = model.bandsDb(slots, p);
+  sum.forEach((x, i) => {
+    if (x > best.db) best = { db: x, hz: model.problem.grid.frequenciesHz[i] };
+  });
   const centres = slots.map((_, k) => Math.pow(2, p[k * P]));
   const trig = gridTrig(centres, model.problem.sampleRateHz);
-  const sum = new Float64Array(centres.length);
+  const atCentres = new Float64Array(centres.length);
   slots.forEach((s, k) => {
-    const band: Band = { id: 'fit', type: s.type, frequency: Math.pow(2, p[k * P]), gainDb: p[k * P + 1], q: Math.pow(2, p[k * P + 2]), enabled: true };
-    for (const sec of designBand(band, model.problem.sampleRateHz)) addSectionDb(sec, trig, sum);
+    const band: Band = { id: 'fit', type: s.type, frequency: centres[k], gainDb: p[k * P + 1], q: Math.pow(2, p[k * P + 2]), enabled: true };
+    for (const sec of designBand(band, model.problem.sampleRateHz)) addSectionDb(sec, trig, atCentres);
   });
-  for (const x of sum) max = Math.max(max, x);
-  return max;
+  atCentres.forEach((x, c) => {
+    if (x > best.db) best = { db: x, hz: centres[c] };
+  });
+  return best;
 }
 
 function nullStretches(nullPoint: Uint8Array, base: Float64Array, third: Float64Array, freqs: Float64Array, first: number, last: number) {

@@ -21,7 +21,7 @@ import { PlanError } from '../plan/error';
 import { LIMITS, type Band, type Plan, type Target } from '../plan/types';
 import { addSectionDb, gridTrig } from './bands';
 import { fitGrid, pointsPerOctave } from './grid';
-import type { FitProblem, FitResult } from './fitter';
+import { DEFAULT_FIT_OPTIONS, fitBands, type FitHooks, type FitOptions, type FitProblem, type FitResult } from './fitter';
 import { targetShapeDb } from './target';
 
 export type FitScope = { kind: 'output'; outputId: string } | { kind: 'system' };
@@ -174,4 +174,34 @@ export function applyFit(plan: Plan, scope: FitScope, result: FitResult, target:
   const others = (plan.targets ?? []).filter((t) => (scope.kind === 'system' ? t.scope !== 'system' : !(t.scope === 'output' && t.outputId === scope.outputId)));
   out.targets = [...others, target];
   return out;
+}
+
+/** The limits a caller may set; the band count defaults to the budget left. */
+export type PlanFitOptions = Partial<FitOptions>;
+
+export interface PlanFit {
+  /** The plan with the fitted bands and the target (a new plan). */
+  plan: Plan;
+  setup: FitSetup;
+  result: FitResult;
+  options: FitOptions;
+  /** More bands were asked for than the budget leaves. */
+  askedBeyondBudget: boolean;
+}
+
+/**
+ * Fits `scope` of `plan` toward `target` and returns the new plan with its report. Throws
+ * `PlanError` when there is nothing to fit, `FitAborted` when `hooks.aborted` says so.
+ */
+export function fitPlan(plan: Plan, scope: FitScope, target: Target, options0: PlanFitOptions = {}, hooks: FitHooks = {}): PlanFit {
+  // An option given as undefined means "the default", not "undefined".
+  const given = Object.fromEntries(Object.entries(options0).filter(([, v]) => v !== undefined)) as PlanFitOptions;
+  const base = { ...DEFAULT_FIT_OPTIONS, alignment: target.alignment, toleranceDb: target.toleranceDb, ...given };
+  if (target.levelDb !== undefined && given.levelDb === undefined) base.levelDb = target.levelDb;
+  const setup = fitSetup(plan, scope, target, base.smoothingN);
+  const asked = given.bands ?? setup.budget;
+  const options: FitOptions = { ...base, bands: Math.min(asked, setup.budget) };
+  const result = fitBands(setup.problem, options, hooks);
+  if (asked > setup.budget && !result.bound.includes('budget')) result.bound.push('budget');
+  return { plan: applyFit(plan, scope, result, target, options), setup, result, options, askedBeyondBudget: asked > setup.budget };
 }
