@@ -157,7 +157,10 @@ class Model {
   readonly trig: GridTrig;
   readonly op: SmoothingOperator;
   readonly basePower: Float64Array;
-  readonly target: Float64Array;
+  readonly shape: Float64Array;
+  /** The target's level, dB: fixed, or refined with the bands when `freeLevel`. */
+  level: number;
+  freeLevel: boolean;
   readonly weight: Float64Array;
   /** Sqrt of the per-octave weight of the added-gain penalty at each grid point. */
   readonly penaltyWeight: number;
@@ -168,13 +171,16 @@ class Model {
     readonly options: FitOptions,
     levelDb: number,
     weight: Float64Array,
+    freeLevel: boolean,
   ) {
     const g = problem.grid;
     this.n = g.frequenciesHz.length;
     this.trig = gridTrig(g.frequenciesHz, problem.sampleRateHz);
     this.op = smoothingOperator(this.n, g.perOctave, options.smoothingN);
     this.basePower = problem.baseDb.map((d) => Math.pow(10, d / 10));
-    this.target = problem.targetDb.map((t) => t + levelDb);
+    this.shape = problem.targetDb;
+    this.level = levelDb;
+    this.freeLevel = freeLevel;
     this.weight = weight;
     this.watched = Int32Array.from({ length: g.last - g.first + 1 }, (_, i) => g.first + i);
     this.penaltyWeight = Math.sqrt(1000 / g.perOctave);
@@ -216,8 +222,10 @@ class Model {
   residuals(slots: readonly Slot[], p: ArrayLike<number>): Float64Array {
     const bands = this.bandsDb(slots, p);
     const { level } = this.smoothed(bands);
+    // A parameter past the bands' is the target's level.
+    const L = p.length > slots.length * P ? p[slots.length * P] : this.level;
     const r = new Float64Array(this.n + this.watched.length);
-    for (let i = 0; i < this.n; i++) r[i] = this.weight[i] > 0 ? Math.sqrt(this.weight[i]) * (level[i] - this.target[i]) : 0;
+    for (let i = 0; i < this.n; i++) r[i] = this.weight[i] > 0 ? Math.sqrt(this.weight[i]) * (level[i] - this.shape[i] - L) : 0;
     this.watched.forEach((i, w) => {
       const over = bands[i] - this.options.maxAddedGainDb;
       r[this.n + w] = over > 0 ? this.penaltyWeight * over : 0;
@@ -267,12 +275,18 @@ class Model {
         });
       }
     });
+    if (p.length > slots.length * P) for (let i = 0; i < n; i++) if (this.weight[i] > 0) rows[i][slots.length * P] = -Math.sqrt(this.weight[i]);
     return rows;
   }
 
   /** Refines every parameter together with Levenberg-Marquardt within [lo, hi]. */
-  refine(slots: readonly Slot[], p: number[], lo: number[], hi: number[], maxIterations: number, tick: () => void): number[] {
-    if (slots.length === 0) return p;
+  refine(slots: readonly Slot[], p0: number[], lo0: number[], hi0: number[], maxIterations: number, tick: () => void): number[] {
+    if (slots.length === 0) return p0;
+    // The level rides along as one more parameter when it is free (and no bands are held).
+    const withLevel = this.freeLevel && this.fixedDb === null;
+    const p = withLevel ? [...p0, this.level] : p0;
+    const lo = withLevel ? [...lo0, this.level - 40] : lo0;
+    const hi = withLevel ? [...hi0, this.level + 40] : hi0;
     const m = this.n + this.watched.length;
     const x = new Float64Array(m);
     for (let i = 0; i < m; i++) x[i] = i;
@@ -301,7 +315,9 @@ class Model {
       damping: 1e-2,
       errorTolerance: 1e-12,
     });
-    return result.parameterValues;
+    const out = result.parameterValues;
+    if (withLevel) this.level = out[out.length - 1];
+    return withLevel ? out.slice(0, -1) : out;
   }
 }
 
@@ -361,9 +377,11 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   const third = smoothDb(smoothingOperator(n, g.perOctave, 3), problem.baseDb);
   const nullPoint = new Uint8Array(n);
   for (let i = 0; i < n; i++) if (problem.baseDb[i] < third[i] - options.nullDepthDb) nullPoint[i] = 1;
-  // A null is the whole dip around such a point: as far as the response stays below that level.
-  for (let i = 1; i < n; i++) if (nullPoint[i - 1] && problem.baseDb[i] < third[i]) nullPoint[i] = 1;
-  for (let i = n - 2; i >= 0; i--) if (nullPoint[i + 1] && problem.baseDb[i] < third[i]) nullPoint[i] = 1;
+  // A null takes in its shoulders: as far as the response stays a quarter of that depth below the
+  // level (a boost there would spill into the null).
+  const shoulder = options.nullDepthDb / 4;
+  for (let i = 1; i < n; i++) if (nullPoint[i - 1] && problem.baseDb[i] < third[i] - shoulder) nullPoint[i] = 1;
+  for (let i = n - 2; i >= 0; i--) if (nullPoint[i + 1] && problem.baseDb[i] < third[i] - shoulder) nullPoint[i] = 1;
   // A smoothed point whose window touches a null point is judged by the null: left out.
   const k = Math.round(g.perOctave / (2 * options.smoothingN));
   const declined = new Uint8Array(n);
@@ -385,7 +403,9 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   const weight = new Float64Array(n);
   for (let i = 0; i < n; i++) weight[i] = declined[i] && diff[i] - levelDb < 0 ? 0 : weightAll[i];
 
-  const model = new Model(problem, options, levelDb, weight.slice());
+  // Aligned by the mean and not set: the level that minimises the error is the mean of the
+  // corrected response, so it is refined with the bands (it starts at the mean before the fit).
+  const model = new Model(problem, options, levelDb, weight.slice(), options.levelDb === undefined && options.alignment === 'mean');
   const before = figures(
     diff.map((d) => d - levelDb),
     weight,
@@ -409,7 +429,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
 
   const errorNow = (): Float64Array => {
     const { level } = model.smoothed(model.bandsDb(slots, p));
-    return level.map((s, i) => s - model.target[i]);
+    return level.map((s, i) => s - model.shape[i] - model.level);
   };
 
   // Shelves first, at the ends of the range, from the mean error of the outer octave.
@@ -472,7 +492,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   }
 
   // Every parameter together.
-  const greedy = p.slice();
+  const greedy = { p: p.slice(), level: model.level };
   p = model.refine(slots, p, lo, hi, 60, tick);
 
   // Toward the tolerance: least squares lets a few points stay far out while the rest are close.
@@ -482,9 +502,9 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   // reweighted round) with the least error beyond the tolerance (then the smallest RMS), on the
   // original weights, any excess of added gain counting heavily against it.
   const near = 0.7 * options.toleranceDb;
-  const score = (params: number[]) => {
+  const score = (params: number[], level = model.level) => {
     const sum = model.bandsDb(slots, params);
-    const e = model.smoothed(sum).level.map((x, i) => x - model.target[i]);
+    const e = model.smoothed(sum).level.map((x, i) => x - model.shape[i] - level);
     let excess = 0;
     for (let i = g.first; i <= g.last; i++) if (weight[i] > 0) excess += weight[i] * Math.pow(Math.max(0, Math.abs(e[i]) - options.toleranceDb), 2);
     let over = 0;
@@ -492,10 +512,10 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
     return [excess + 100 * over * over, figures(e, weight, freqs).rmsDb];
   };
   const better = (a: number[], b: number[]) => a[0] < b[0] - 1e-12 || (Math.abs(a[0] - b[0]) <= 1e-12 && a[1] < b[1]);
-  let best = { p: greedy, s: score(greedy) };
+  let best = { ...greedy, s: score(greedy.p, greedy.level) };
   const consider = (params: number[]) => {
     const sc = score(params);
-    if (better(sc, best.s)) best = { p: params, s: sc };
+    if (better(sc, best.s)) best = { p: params, level: model.level, s: sc };
   };
   consider(p);
   for (let round = 0; round < 3 && slots.length > 0; round++) {
@@ -512,6 +532,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
     consider(p);
   }
   p = best.p.slice();
+  model.level = best.level;
 
   // Bands that ended at (almost) no gain do nothing: drop them.
   const keep = slots.map((_, k) => Math.abs(p[k * P + 1]) >= 0.05);
@@ -546,15 +567,16 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   if (repair()) {
     headroomBound = true;
     // Refined on the original weights; kept only if it scores better once repaired in turn.
-    const repaired = { p: p.slice(), added };
+    const repaired = { p: p.slice(), added, level: model.level };
     model.weight.set(weight);
     const capped = hi.map((h, i) => (i % P === 1 && p[i] > 0 ? Math.min(h, p[i]) : h));
     p = model.refine(slots, p, lo, capped, 15, tick);
     added = maxAddedGain(model, slots, p);
     repair();
-    if (!better(score(p), score(repaired.p))) {
+    if (!better(score(p), score(repaired.p, repaired.level))) {
       p = repaired.p;
       added = repaired.added;
+      model.level = repaired.level;
     }
   }
   let addedGain = added.db;
@@ -569,6 +591,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
     hi = [];
     addedGain = 0;
     headroomBound = false;
+    model.level = levelDb;
     e = errorNow();
     after = figures(e, weight, freqs);
   }
@@ -596,7 +619,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   hooks.progress?.(1);
   return {
     bands,
-    levelDb,
+    levelDb: model.level,
     before,
     after,
     nulls: nullStretches(nullPoint, problem.baseDb, third, freqs, g.first, g.last),
