@@ -156,6 +156,7 @@ class Model {
   readonly n: number;
   readonly trig: GridTrig;
   readonly op: SmoothingOperator;
+  readonly halfWindow: number;
   readonly basePower: Float64Array;
   readonly shape: Float64Array;
   /** The target's level, dB: fixed, or refined with the bands when `freeLevel`. */
@@ -177,12 +178,12 @@ class Model {
     this.n = g.frequenciesHz.length;
     this.trig = gridTrig(g.frequenciesHz, problem.sampleRateHz);
     this.op = smoothingOperator(this.n, g.perOctave, options.smoothingN);
+    this.halfWindow = Math.round(g.perOctave / (2 * options.smoothingN));
     this.basePower = problem.baseDb.map((d) => Math.pow(10, d / 10));
     this.shape = problem.targetDb;
     this.level = levelDb;
     this.freeLevel = freeLevel;
     this.weight = weight;
-    this.watched = Int32Array.from({ length: g.last - g.first + 1 }, (_, i) => g.first + i);
     this.penaltyWeight = Math.sqrt(1000 / g.perOctave);
   }
 
@@ -215,7 +216,11 @@ class Model {
     return { level, power };
   }
 
-  /** Grid points watched for the added-gain penalty: every point inside the range. */
+  /**
+   * Grid points watched for the added-gain penalty in one refinement: those where the bands
+   * already come within 6 dB of the limit. A step that jumps further is caught afterwards: the
+   * candidates are scored with any excess, and the limit is repaired exactly at the end.
+   */
   watched: Int32Array = new Int32Array(0);
 
   /** The weighted residuals: per grid point the error, then per watched point the added-gain penalty. */
@@ -262,8 +267,19 @@ class Model {
         q[idx] = p[idx];
         // d(band level)/dp at each point, then through the smoothing:
         // dS_i/dp = sum_j W_ij P_j dD_j/dp / sum_j W_ij P_j (levels in dB, powers linear).
-        for (let i = 0; i < n; i++) plus[i] = (plus[i] - minus[i]) / (2 * h);
+        // Only where the band's level moves at all: far from a band its derivative underflows.
+        let a = n;
+        let b = -1;
         for (let i = 0; i < n; i++) {
+          plus[i] = (plus[i] - minus[i]) / (2 * h);
+          if (Math.abs(plus[i]) > 1e-12) {
+            if (a === n) a = i;
+            b = i;
+          }
+        }
+        a = Math.max(0, a - this.halfWindow);
+        b = Math.min(n - 1, b + this.halfWindow);
+        for (let i = a; i <= b; i++) {
           if (this.weight[i] > 0) {
             let s = 0;
             for (let e = op.start[i]; e < op.start[i + 1]; e++) s += op.w[e] * power[op.cols[e]] * plus[op.cols[e]];
@@ -284,6 +300,10 @@ class Model {
     if (slots.length === 0) return p0;
     // The level rides along as one more parameter when it is free (and no bands are held).
     const withLevel = this.freeLevel && this.fixedDb === null;
+    const start = this.bandsDb(slots, p0);
+    const watched: number[] = [];
+    for (let i = this.problem.grid.first; i <= this.problem.grid.last; i++) if (start[i] > this.options.maxAddedGainDb - 6) watched.push(i);
+    this.watched = Int32Array.from(watched);
     const p = withLevel ? [...p0, this.level] : p0;
     const lo = withLevel ? [...lo0, this.level - 40] : lo0;
     const hi = withLevel ? [...hi0, this.level + 40] : hi0;
@@ -421,7 +441,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   let lo: number[] = [];
   let hi: number[] = [];
   const budget = Math.max(0, Math.floor(options.bands));
-  const totalIterations = Math.max(1, budget * 10 + 105);
+  const totalIterations = Math.max(1, budget * 10 + 85);
   const tick = () => {
     if (hooks.aborted?.()) throw new FitAborted();
     hooks.progress?.(Math.min(0.99, model.iterations / totalIterations));
@@ -493,7 +513,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
 
   // Every parameter together.
   const greedy = { p: p.slice(), level: model.level };
-  p = model.refine(slots, p, lo, hi, 60, tick);
+  p = model.refine(slots, p, lo, hi, 40, tick);
 
   // Toward the tolerance: least squares lets a few points stay far out while the rest are close.
   // Points still beyond most of the tolerance weigh more, and the bands are refined again
@@ -528,7 +548,7 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
       }
     }
     if (!outside) break;
-    p = model.refine(slots, p, lo, hi, 15, tick);
+    p = model.refine(slots, p, lo, hi, 10, tick);
     consider(p);
   }
   p = best.p.slice();

@@ -26,6 +26,7 @@ import {
 } from '../../src/response/kernel';
 import { logFrequencies } from '../../src/response/chain-response';
 import { measureBenchText, runMeasureBench } from './measure.bench';
+import { fitBenchText, runFitBench } from './fit.bench';
 
 const SIZES = [
   { sections: 16, points: 2048 },
@@ -167,9 +168,10 @@ const sizes = SIZES.map((s, i) => {
   };
 });
 const measure = runMeasureBench();
+const fit = runFitBench();
 if (json) {
   process.stdout.write(
-    JSON.stringify({ sizes, measure, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
+    JSON.stringify({ sizes, measure, fit, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
   );
 } else {
   console.log(
@@ -185,4 +187,5 @@ if (json) {
   }
   console.log(`goal: at most ${GOAL_NS} ns per point x section and at least ${GOAL_SCIPY_RATIO}x faster than sosfreqz at every size`);
   console.log(measureBenchText(measure));
+  console.log(fitBenchText(fit));
 }
