@@ -382,17 +382,10 @@ function figures(err: Float64Array, w: Float64Array, freqs: Float64Array): Error
   return { rmsDb: sw > 0 ? Math.sqrt(s / sw) : 0, maxDb: max, maxAtHz: at };
 }
 
-/**
- * Fits up to `options.bands` bands to `problem`. Throws `FitAborted` when `hooks.aborted` says so
- * between iterations; otherwise always returns a result within every bound.
- */
-export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHooks = {}): FitResult {
+/** Nulls, the points they decline, and the target's starting level (docs/fitting.md, "The error"). */
+function prepare(problem: FitProblem, options: Pick<FitOptions, 'nullDepthDb' | 'smoothingN' | 'levelDb' | 'alignment'>) {
   const g = problem.grid;
-  const freqs = g.frequenciesHz;
-  const n = freqs.length;
-  const fromHz = freqs[g.first];
-  const toHz = freqs[g.last];
-
+  const n = g.frequenciesHz.length;
   // Nulls: the response more than nullDepthDb below its own 1/3-octave smoothed level.
   const third = smoothDb(smoothingOperator(n, g.perOctave, 3), problem.baseDb);
   const nullPoint = new Uint8Array(n);
@@ -417,6 +410,31 @@ export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHoo
   for (let i = 0; i < n; i++) levelWeight[i] = declined[i] ? 0 : weightAll[i];
   const diff = smoothedBase.map((s, i) => s - problem.targetDb[i]);
   const levelDb = options.levelDb ?? weightedLevel(diff, levelWeight, options.alignment);
+
+  return { nullPoint, declined, third, diff, levelDb };
+}
+
+/**
+ * The target's level (dB) before a fit: `levelDb` when set, else the per-octave mean or median
+ * of the smoothed response minus the target's shape over the range, outside the declined nulls.
+ */
+export function startingLevel(problem: FitProblem, options: Pick<FitOptions, 'nullDepthDb' | 'smoothingN' | 'levelDb' | 'alignment'>): number {
+  return prepare(problem, options).levelDb;
+}
+
+/**
+ * Fits up to `options.bands` bands to `problem`. Throws `FitAborted` when `hooks.aborted` says so
+ * between iterations; otherwise always returns a result within every bound.
+ */
+export function fitBands(problem: FitProblem, options: FitOptions, hooks: FitHooks = {}): FitResult {
+  const g = problem.grid;
+  const freqs = g.frequenciesHz;
+  const n = freqs.length;
+  const fromHz = freqs[g.first];
+  const toHz = freqs[g.last];
+
+  const { nullPoint, declined, third, diff, levelDb } = prepare(problem, options);
+  const weightAll = g.weights;
 
   // Declined points weigh nothing only where the response is below the target there (a boost
   // would be needed); a peak beside a null is still cut.

@@ -21,7 +21,7 @@ import { PlanError } from '../plan/error';
 import { LIMITS, type Band, type Plan, type Target } from '../plan/types';
 import { addSectionDb, gridTrig } from './bands';
 import { fitGrid, pointsPerOctave } from './grid';
-import { DEFAULT_FIT_OPTIONS, fitBands, type FitHooks, type FitOptions, type FitProblem, type FitResult } from './fitter';
+import { DEFAULT_FIT_OPTIONS, fitBands, startingLevel, type FitHooks, type FitOptions, type FitProblem, type FitResult } from './fitter';
 import { targetShapeDb } from './target';
 
 export type FitScope = { kind: 'output'; outputId: string } | { kind: 'system' };
@@ -204,4 +204,42 @@ export function fitPlan(plan: Plan, scope: FitScope, target: Target, options0: P
   const result = fitBands(setup.problem, options, hooks);
   if (asked > setup.budget && !result.bound.includes('budget')) result.bound.push('budget');
   return { plan: applyFit(plan, scope, result, target, options), setup, result, options, askedBeyondBudget: asked > setup.budget };
+}
+
+/** The scope a chain of the app stands for: the input chain is the system's. */
+export function scopeOfChain(chain: string, inputChain: string): FitScope {
+  return chain === inputChain ? { kind: 'system' } : { kind: 'output', outputId: chain };
+}
+
+/** The scope's stored target, or null. */
+export function targetOf(plan: Plan, scope: FitScope): Target | null {
+  return (plan.targets ?? []).find((t) => (scope.kind === 'system' ? t.scope === 'system' : t.scope === 'output' && t.outputId === scope.outputId)) ?? null;
+}
+
+/** The plan with `target` stored for its scope (replacing the scope's earlier one), or without it when null. */
+export function withTarget(plan: Plan, scope: FitScope, target: Target | null): Plan {
+  const others = (plan.targets ?? []).filter((t) => (scope.kind === 'system' ? t.scope !== 'system' : !(t.scope === 'output' && t.outputId === scope.outputId)));
+  const targets = target ? [...others, target] : others;
+  const next: Plan = { ...plan, targets };
+  if (targets.length === 0) delete next.targets;
+  return next;
+}
+
+/**
+ * The target as drawn: its shape on `frequenciesHz` at its level (the level set, else found as
+ * a fit would start from it), and the range it applies to. Null when the scope has no measurement.
+ */
+export function targetCurve(plan: Plan, scope: FitScope, target: Target, frequenciesHz: ArrayLike<number>): { levelDb: number; db: Float64Array; fromHz: number; toHz: number } | null {
+  let setup: FitSetup;
+  try {
+    setup = fitSetup(plan, scope, target, DEFAULT_FIT_OPTIONS.smoothingN);
+  } catch (e) {
+    if (e instanceof PlanError) return null;
+    throw e;
+  }
+  const levelDb = startingLevel(setup.problem, { ...DEFAULT_FIT_OPTIONS, alignment: target.alignment, levelDb: target.levelDb });
+  const output = scope.kind === 'output' ? plan.outputs.find((o) => o.id === scope.outputId) : undefined;
+  const db = targetShapeDb(target.parts, frequenciesHz, { sampleRateHz: plan.sampleRate, output });
+  for (let i = 0; i < db.length; i++) db[i] += levelDb;
+  return { levelDb, db, fromHz: setup.fromHz, toHz: setup.toHz };
 }
