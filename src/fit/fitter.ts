@@ -13,16 +13,17 @@
  * Method. A deterministic start, then all band parameters refined together:
  * 1. Greedy: the largest weighted deviation of the smoothed error gets a band of the opposite
  *    gain at its frequency, its Q from the deviation's width at half its height (the cookbook's
- *    bandwidth relation); the bands placed so far are then refined together for a few
- *    iterations, and the next largest deviation is taken, until the band count is reached or no
- *    deviation exceeds `minDeviationDb`.
+ *    bandwidth relation), refined alone for a few iterations (every fourth band, all of them
+ *    together), and the next largest deviation is taken, until the band count is reached or no
+ *    deviation exceeds half the tolerance (or `minDeviationDb`, if larger).
  * 2. Levenberg-Marquardt (K. Levenberg 1944, D. W. Marquardt 1963; docs/references.md,
  *    "Fitting") on every parameter at once, with the kept `ml-levenberg-marquardt` library:
  *    parameters log2 f, gain dB, log2 Q, held inside their bounds by projection (the library's
  *    minValues / maxValues). The Jacobian is given to it: each band's level derivative by central
  *    differences (only that band changes), carried exactly through the smoothing.
- * 3. The added gain limit (headroom): a penalty while the bands' summed level passes it, then a
- *    final scaling of the boosts if it is still passed, so the result never exceeds it.
+ * 3. Toward the tolerance: a few rounds of reweighting (Lawson), keeping the best candidate.
+ * 4. The added gain limit (headroom): a penalty while the bands' summed level passes it, then the
+ *    boosts at the worst frequency lowered in proportion, so the result never exceeds it.
  *
  * The same problem and options give the same bands: no randomness, no clock.
  */

@@ -18,11 +18,16 @@ export interface TargetCurves {
   toleranceDb: number;
 }
 
-export function targetCurves(plan: Plan, scope: FitScope, grid: Float64Array): TargetCurves | null {
+/** `levelDb`: the level a fit proposal ended at (the mean alignment is refined with the bands). */
+export function targetCurves(plan: Plan, scope: FitScope, grid: Float64Array, levelDb?: number): TargetCurves | null {
   const t = targetOf(plan, scope);
   if (!t) return null;
   const c = targetCurve(plan, scope, t, grid);
   if (!c) return null;
+  if (levelDb !== undefined) {
+    for (let i = 0; i < c.db.length; i++) c.db[i] += levelDb - c.levelDb;
+    c.levelDb = levelDb;
+  }
   const n = grid.length;
   const target = new Float64Array(n);
   const low = new Float64Array(n);
