@@ -134,11 +134,20 @@ export function fitSetup(plan: Plan, scope: FitScope, target: Target, smoothingN
   return { problem: { sampleRateHz: fs, grid, baseDb, targetDb }, budget: left, budgetSource, replaced, measurementId: measurement.id, fromHz, toHz };
 }
 
-/** Round to `digits` significant digits toward zero (so a bound is never passed by rounding). */
-function roundTowardZero(x: number, digits: number): number {
+/** Round to `digits` significant digits by `how` (toward zero, up or down). */
+function roundDigits(x: number, digits: number, how: (y: number) => number = Math.trunc): number {
   if (x === 0 || !Number.isFinite(x)) return x;
   const scale = Math.pow(10, digits - 1 - Math.floor(Math.log10(Math.abs(x))));
-  return Math.trunc(x * scale) / scale;
+  return how(x * scale) / scale;
+}
+const roundTowardZero = (x: number, digits: number) => roundDigits(x, digits);
+
+/** A frequency rounded to 6 significant digits without leaving [lo, hi] by the rounding. */
+function roundInside(f: number, lo: number, hi: number): number {
+  const r = roundDigits(f, 6, Math.round);
+  if (r < lo) return Math.min(hi, roundDigits(f, 6, Math.ceil));
+  if (r > hi) return Math.max(lo, roundDigits(f, 6, Math.floor));
+  return r;
 }
 
 /**
@@ -146,7 +155,7 @@ function roundTowardZero(x: number, digits: number): number {
  * marked `fitted`, ids fit1, fit2, ... not taken by a kept band) and the target stored for the
  * scope. A new plan; the one given is not changed.
  */
-export function applyFit(plan: Plan, scope: FitScope, result: FitResult, target: Target, options: { qMin: number; qMax: number }): Plan {
+export function applyFit(plan: Plan, scope: FitScope, result: FitResult, target: Target, options: { qMin: number; qMax: number; fromHz: number; toHz: number }): Plan {
   const kept = withoutReplaced(plan, scope);
   const keptBands = chainOf(kept, scope);
   const taken = new Set(keptBands.map((b) => b.id));
@@ -160,8 +169,8 @@ export function applyFit(plan: Plan, scope: FitScope, result: FitResult, target:
   const added: Band[] = sorted.map((b) => ({
     id: fresh(),
     type: b.type,
-    frequency: roundTowardZero(b.frequency, 6),
-    gainDb: roundTowardZero(b.gainDb, 4),
+    frequency: roundInside(b.frequency, options.fromHz, options.toHz),
+    gainDb: roundTowardZero(b.gainDb, 6),
     q: Math.min(options.qMax, Math.max(options.qMin, roundTowardZero(b.q, 4))),
     enabled: true,
     fitted: true,
@@ -203,7 +212,7 @@ export function fitPlan(plan: Plan, scope: FitScope, target: Target, options0: P
   const options: FitOptions = { ...base, bands: Math.min(asked, setup.budget) };
   const result = fitBands(setup.problem, options, hooks);
   if (asked > setup.budget && !result.bound.includes('budget')) result.bound.push('budget');
-  return { plan: applyFit(plan, scope, result, target, options), setup, result, options, askedBeyondBudget: asked > setup.budget };
+  return { plan: applyFit(plan, scope, result, target, { ...options, fromHz: setup.fromHz, toHz: setup.toHz }), setup, result, options, askedBeyondBudget: asked > setup.budget };
 }
 
 /** The scope a chain of the app stands for: the input chain is the system's. */

@@ -208,3 +208,41 @@ describe('limits', () => {
     expect(() => fitPlan(bare, { kind: 'system' }, flatTarget('system'))).toThrow(/systemMeasurementIds/);
   });
 });
+
+describe('limits under random settings (fast-check, seeded)', () => {
+  it('every fit stays within its bounds, its budget and its added-gain limit, and is a valid plan', async () => {
+    const fc = await import('fast-check');
+    fc.assert(
+      fc.property(
+        fc.record({
+          bands: fc.integer({ min: 0, max: 12 }),
+          maxBoostDb: fc.double({ min: 0, max: 9, noNaN: true }),
+          maxCutDb: fc.double({ min: 0.5, max: 20, noNaN: true }),
+          qMin: fc.double({ min: 0.3, max: 3, noNaN: true }),
+          qSpan: fc.double({ min: 1, max: 10, noNaN: true }),
+          fromHz: fc.double({ min: 20, max: 100, noNaN: true }),
+          octaves: fc.double({ min: 1, max: 4, noNaN: true }),
+          maxAddedGainDb: fc.double({ min: 0, max: 6, noNaN: true }),
+        }),
+        (s) => {
+          const qMax = s.qMin * s.qSpan;
+          const toHz = s.fromHz * 2 ** s.octaves;
+          const fit = fitPlan(systemPlan(roomCase), { kind: 'system' }, { ...flatTarget('system'), fromHz: s.fromHz, toHz }, { ...s, qMax });
+          expect(fit.plan.input.bands.length).toBeLessThanOrEqual(s.bands);
+          for (const b of fit.plan.input.bands) {
+            expect(b.gainDb ?? 0).toBeLessThanOrEqual(s.maxBoostDb);
+            expect(b.gainDb ?? 0).toBeGreaterThanOrEqual(-s.maxCutDb);
+            expect(b.q ?? 0).toBeGreaterThanOrEqual(s.qMin);
+            expect(b.q ?? 0).toBeLessThanOrEqual(qMax);
+            expect(b.frequency).toBeGreaterThanOrEqual(s.fromHz * (1 - 1e-9));
+            expect(b.frequency).toBeLessThanOrEqual(toHz * (1 + 1e-9));
+          }
+          expect(fit.result.addedGainDb).toBeLessThanOrEqual(s.maxAddedGainDb + 1e-9);
+          expect(fit.result.after.rmsDb).toBeLessThanOrEqual(fit.result.before.rmsDb + 1e-9);
+          expect(readPlanValue(planToJson(fit.plan)).ok).toBe(true);
+        },
+      ),
+      { numRuns: 12, seed: 20261202 },
+    );
+  });
+});
