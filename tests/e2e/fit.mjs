@@ -38,6 +38,12 @@ try {
     const ids = await plottedIds();
     assert(ids.includes('target-low') && ids.includes('target-high'), `tolerance curves missing: ${ids}`);
     await page.screenshot({ path: `${OUT}/fit-1-target.png` });
+    // Its legend entry hides the target and its tolerance together, and shows them again.
+    const key = page.locator('[data-testid="legend-key"][data-curve="target"]');
+    await key.click();
+    await page.waitForFunction(() => !window.__biquadrant.plotted().magnitude.some((s) => s.id.startsWith('target')));
+    await key.click();
+    await page.waitForFunction(() => window.__biquadrant.plotted().magnitude.filter((s) => s.id.startsWith('target')).length === 3);
   });
 
   await check('Fit runs off the main thread with progress; Cancel leaves the plan untouched', async () => {
