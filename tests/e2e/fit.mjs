@@ -89,6 +89,25 @@ try {
     await page.waitForFunction(() => window.__biquadrant.plan().outputs[0].bands.some((b) => b.fitted === true));
   });
 
+  await check('a breakpoint target: its points are handles on the plot; a drag moves one, one undo puts it back', async () => {
+    await page.getByTestId('target-kind').selectOption('points');
+    await page.waitForFunction(() => window.__biquadrant.plan().targets[0].parts[0].kind === 'points');
+    const id = '\u0001target:2';
+    await page.waitForFunction((h) => window.__biquadrant.plotted().handles.some((x) => x.id === h), id);
+    const before = await page.evaluate(() => window.__biquadrant.plan().targets[0].parts[0].points[2]);
+    const h = await page.evaluate((x) => window.__biquadrant.handle(x), id);
+    assert(h, 'no handle for the breakpoint');
+    await page.mouse.move(h.x, h.y);
+    await page.mouse.down();
+    for (let k = 1; k <= 8; k++) await page.mouse.move(h.x + 3 * k, h.y - 5 * k);
+    await page.mouse.up();
+    const after = await page.evaluate(() => window.__biquadrant.plan().targets[0].parts[0].points[2]);
+    assert(after[1] > before[1] + 1 && after[0] > before[0], `the point did not move up and right: ${before} -> ${after}`);
+    await page.screenshot({ path: `${OUT}/fit-4-breakpoints.png` });
+    await page.keyboard.press('Control+z');
+    await page.waitForFunction((b) => JSON.stringify(window.__biquadrant.plan().targets[0].parts[0].points[2]) === JSON.stringify(b), before);
+  });
+
   await check('no page errors', async () => {
     assert(errors.length === 0, errors.join('\n'));
   });
