@@ -3,6 +3,7 @@
  * `points` target is a handle (its id starts with a control character, which no band id may
  * hold); a drag moves it in frequency (between its neighbours) and level, one undoable step.
  */
+import { AUDIO_BAND_TOP_FRACTION } from '../../../src/analysis/thresholds';
 import { targetOf, withTarget, type FitScope } from '../../../src/fit/plan-fit';
 import type { Target, TargetPart } from '../../../src/plan/types';
 import * as edits from '../../../src/ui/edits';
@@ -40,7 +41,7 @@ export function dragTarget(d: { freqRatio: number; deltaDb: number }): void {
   const [f0, db0] = pts[point];
   // Kept strictly between its neighbours (the contract wants increasing frequencies).
   const lo = point > 0 ? pts[point - 1][0] * 1.001 : 1;
-  const hi = point < pts.length - 1 ? pts[point + 1][0] / 1.001 : doc.plan.sampleRate * 0.45;
+  const hi = point < pts.length - 1 ? pts[point + 1][0] / 1.001 : doc.plan.sampleRate * AUDIO_BAND_TOP_FRACTION;
   const f = Math.min(hi, Math.max(lo, f0 * d.freqRatio));
   const db = Math.max(-100, Math.min(100, Math.round((db0 + d.deltaDb) * 10) / 10));
   const moved: Points = { kind: 'points', points: pts.map((p, i): [number, number] => (i === point ? [+f.toPrecision(5), db] : [p[0], p[1]])) };
