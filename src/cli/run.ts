@@ -23,6 +23,7 @@ import { delaysRounded, withBoardDelays } from '../design/board-delay';
 import { designedResponse } from '../response/chain-response';
 import { DELAY_ROUNDING_SHOW_DB } from '../analysis/thresholds';
 import { dbText, formatFrequency } from '../format';
+import { cmdFit } from './fit';
 
 export { checkOutputId, InputError, loadPlan, type CliIo, type CliResult } from './io';
 export { responseColumns, responseCsv, responseFrequencies, responseResult, toDegreesWrapped, type ResponseAddition, type ResponseColumns } from './response';
@@ -68,6 +69,15 @@ export const COMMAND_USAGE: Record<string, string> = {
       the plan at another sample rate, written to stdout; on stderr how far each band and edge
       moves (largest dB difference over 20 Hz - 20 kHz); --method matched: bands moving more
       than the tolerance (default 0.5 dB) get a matched design; bilinear: every band bilinear`,
+  fit: `  fit PLAN (--output ID | --system) [--target flat|tilt:DB_PER_OCT@HZ|FILE] [--from HZ --to HZ]
+      [--bands N] [--max-boost DB] [--max-cut DB] [--q-min Q] [--q-max Q] [--smooth 1/N]
+      [--report json|text]
+      the plan with peaking bands fitted so the output's predicted acoustic response (or the
+      system measurement, bands in the input chain) meets the target, written to stdout; the
+      report (error before and after, bands, limits that bound, where the target is not met and
+      why) on stderr. Defaults: the plan's target for it, else flat; 20 Hz to 20 kHz within the
+      measurement; the section budget left; boost 6 dB, cut 15 dB, Q 0.5 to 12, 1/6 octave.
+      FILE: frequency and dB columns, as measurements are written`,
 };
 
 const EXIT_CODES = 'exit codes: 0 success, 1 invalid plan or input file, 2 usage error';
@@ -102,6 +112,7 @@ export const COMMANDS: Record<string, (argv: string[], io: CliIo) => CliResult> 
   measure: cmdMeasure,
   attach: cmdAttach,
   retarget: cmdRetarget,
+  fit: cmdFit,
 };
 
 export function runCli(argv: readonly string[], io: CliIo, info: CliInfo = { version: 'unknown' }): CliResult {

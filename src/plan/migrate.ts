@@ -30,15 +30,15 @@ const steps: Record<number, Step> = {
  * knew the field, so its meaning is not the one this build would give it.
  */
 export const FIELDS_SINCE = {
-  plan: { profile: 2, airTemperatureC: 3, measurements: 3, systemMeasurementIds: 3, defaultDesign: 3 } as Record<string, number>,
+  plan: { profile: 2, airTemperatureC: 3, measurements: 3, systemMeasurementIds: 3, defaultDesign: 3, targets: 3 } as Record<string, number>,
   output: { driverMeasurementId: 3, acousticOffset: 3, exportName: 3 } as Record<string, number>,
-  band: { design: 3 } as Record<string, number>,
+  band: { design: 3, fitted: 3, locked: 3 } as Record<string, number>,
 };
 
 /** What each version added, for the refusal's message. */
 export const VERSION_ADDED: Record<number, string> = {
   2: 'board profiles',
-  3: 'measurements, acoustic offsets, export names, the air temperature and design methods',
+  3: 'measurements, targets, fitted and locked bands, acoustic offsets, export names, the air temperature and design methods',
 };
 
 export function migrate(plan: Record<string, unknown>, fromVersion: number): Record<string, unknown> {

@@ -39,6 +39,10 @@ import {
   type Output,
   type Plan,
   type RawCoefficients,
+  type Target,
+  type TargetPart,
+  type TargetPartKind,
+  TARGET_PART_KINDS,
 } from './types';
 
 export { PlanError };
@@ -97,19 +101,15 @@ function refuseNewerFields(root: Record<string, unknown>, version: number): void
   };
   check(root, FIELDS_SINCE.plan, '');
   if (Array.isArray(root.outputs)) root.outputs.forEach((o, i) => check(o, FIELDS_SINCE.output, `outputs[${i}]`));
-  const checkBands = (bands: unknown, path: string) => {
-    if (Array.isArray(bands)) bands.forEach((b, i) => check(b, FIELDS_SINCE.band, `${path}[${i}]`));
+  const checkBands = (chain: unknown, path: string) => {
+    const bands = typeof chain === 'object' && chain !== null ? (chain as Record<string, unknown>).bands : undefined;
+    if (Array.isArray(bands)) bands.forEach((b, i) => check(b, FIELDS_SINCE.band, `${path}.bands[${i}]`));
   };
-  const input: unknown = root.input;
-  if (typeof input === 'object' && input !== null) checkBands((input as Record<string, unknown>).bands, 'input.bands');
-  if (Array.isArray(root.outputs)) {
-    root.outputs.forEach((o: unknown, i) => {
-      if (typeof o === 'object' && o !== null) checkBands((o as Record<string, unknown>).bands, `outputs[${i}].bands`);
-    });
-  }
+  checkBands(root.input, 'input');
+  if (Array.isArray(root.outputs)) root.outputs.forEach((o, i) => checkBands(o, `outputs[${i}]`));
 }
 
-const PLAN_KEYS = ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs', 'profile', 'airTemperatureC', 'measurements', 'systemMeasurementIds', 'defaultDesign'];
+const PLAN_KEYS = ['format', 'version', 'name', 'notes', 'sampleRate', 'input', 'outputs', 'profile', 'airTemperatureC', 'measurements', 'systemMeasurementIds', 'defaultDesign', 'targets'];
 
 function readCurrent(o: Record<string, unknown>): Plan {
   allowKeys(o, '', PLAN_KEYS);
@@ -151,6 +151,7 @@ function readCurrent(o: Record<string, unknown>): Plan {
   if (o.profile !== undefined && o.profile !== null) plan.profile = readBoardProfile(o.profile, 'profile');
   readMeasurementFields(o, plan);
   if (o.defaultDesign !== undefined) plan.defaultDesign = oneOf(o.defaultDesign, 'defaultDesign', DESIGN_METHODS) as DesignMethod;
+  if (o.targets !== undefined) plan.targets = readTargets(o.targets, 'targets', plan);
   return plan;
 }
 
@@ -250,6 +251,117 @@ export function readMeasurement(v: unknown, path: string): Measurement {
     list.forEach((x, i) => notes.push(plainText(x, `${at('notes')}[${i}]`, LIMITS.measurementNoteMaxLength, true)));
   }
   return { id, name, source: { fileName, kind }, frequencyHz, magnitudeDb, phaseDeg, phaseEstimated, delayMs, notes };
+}
+
+// ---- targets (version 3) ----------------------------------------------------------------------
+
+const TARGET_KEYS = ['scope', 'outputId', 'parts', 'alignment', 'levelDb', 'fromHz', 'toHz', 'toleranceDb'];
+
+/** The plan's targets: at most one per output and one for the system, each naming a real output. */
+function readTargets(v: unknown, path: string, plan: Plan): Target[] {
+  const list = array(v, path);
+  const seen = new Set<string>();
+  return list.map((x, i) => {
+    const at = `${path}[${i}]`;
+    const t = readTarget(x, at, plan.sampleRate);
+    if (t.scope === 'output') {
+      const out = plan.outputs.find((o) => o.id === t.outputId);
+      if (!out) throw new PlanError(`${at}.outputId`, `"${t.outputId}" names no output of this plan`);
+    }
+    const key = t.scope === 'system' ? 'system' : `output ${t.outputId}`;
+    if (seen.has(key)) throw new PlanError(at, t.scope === 'system' ? 'a second target of the system (one is allowed)' : `a second target of output "${t.outputId}" (one per output is allowed)`);
+    seen.add(key);
+    return t;
+  });
+}
+
+/**
+ * Reads one target at `path`; throws `PlanError` with the field path. Required: `scope` and, for
+ * an output, `outputId`. Defaults: `parts` (flat), `alignment` ("mean"), `levelDb` (found by the
+ * alignment), `fromHz` / `toHz` (the fit's default range), `toleranceDb` (1).
+ */
+export function readTarget(v: unknown, path: string, sampleRate: number): Target {
+  const o = object(v, path);
+  allowKeys(o, path, TARGET_KEYS);
+  const at = (key: string) => `${path}.${key}`;
+  const scope = oneOf(o.scope, at('scope'), ['output', 'system']) as Target['scope'];
+  const t: Target = { scope, parts: [], alignment: 'mean', toleranceDb: 1 };
+  if (scope === 'output') t.outputId = identifier(o.outputId, at('outputId'));
+  else if (o.outputId !== undefined) throw new PlanError(at('outputId'), 'applies to a target of an output only (scope "output")');
+  if (o.parts !== undefined) {
+    const parts = array(o.parts, at('parts'));
+    if (parts.length > LIMITS.targetPartsMax) throw new PlanError(at('parts'), `must hold at most ${LIMITS.targetPartsMax} parts`);
+    t.parts = parts.map((p, i) => readTargetPart(p, `${at('parts')}[${i}]`, sampleRate, scope));
+  }
+  if (o.alignment !== undefined) t.alignment = oneOf(o.alignment, at('alignment'), ['mean', 'median']) as Target['alignment'];
+  if (o.levelDb !== undefined) {
+    t.levelDb = num(o.levelDb, at('levelDb'));
+    if (Math.abs(t.levelDb) > LIMITS.measurementMagnitudeDbAbsMax) throw new PlanError(at('levelDb'), `must be within +/-${LIMITS.measurementMagnitudeDbAbsMax} dB`);
+  }
+  if (o.fromHz !== undefined) t.fromHz = frequency(o.fromHz, at('fromHz'), sampleRate);
+  if (o.toHz !== undefined) t.toHz = frequency(o.toHz, at('toHz'), sampleRate);
+  if (t.fromHz !== undefined && t.toHz !== undefined && !(t.toHz > t.fromHz)) {
+    throw new PlanError(at('toHz'), `must be above fromHz (${t.fromHz} Hz)`);
+  }
+  if (o.toleranceDb !== undefined) {
+    t.toleranceDb = num(o.toleranceDb, at('toleranceDb'));
+    if (!(t.toleranceDb >= LIMITS.targetToleranceDbMin && t.toleranceDb <= LIMITS.targetToleranceDbMax)) {
+      throw new PlanError(at('toleranceDb'), `must be from ${LIMITS.targetToleranceDbMin} to ${LIMITS.targetToleranceDbMax} dB`);
+    }
+  }
+  return t;
+}
+
+function targetDb(v: unknown, path: string): number {
+  const x = num(v, path);
+  if (Math.abs(x) > LIMITS.targetDbAbsMax) throw new PlanError(path, `must be within +/-${LIMITS.targetDbAbsMax} dB`);
+  return x;
+}
+
+function readTargetPart(v: unknown, path: string, sampleRate: number, scope: Target['scope']): TargetPart {
+  const o = object(v, path);
+  const kind = oneOf(o.kind, `${path}.kind`, TARGET_PART_KINDS) as TargetPartKind;
+  const at = (key: string) => `${path}.${key}`;
+  switch (kind) {
+    case 'flat':
+      allowKeys(o, path, ['kind']);
+      return { kind };
+    case 'crossover':
+      allowKeys(o, path, ['kind']);
+      if (scope !== 'output') throw new PlanError(at('kind'), '"crossover" (the output\'s own edges) applies to a target of an output only');
+      return { kind };
+    case 'tilt': {
+      allowKeys(o, path, ['kind', 'dbPerOctave', 'pivotHz']);
+      const dbPerOctave = num(o.dbPerOctave, at('dbPerOctave'));
+      if (Math.abs(dbPerOctave) > LIMITS.targetTiltDbPerOctaveAbsMax) {
+        throw new PlanError(at('dbPerOctave'), `must be within +/-${LIMITS.targetTiltDbPerOctaveAbsMax} dB per octave`);
+      }
+      return { kind, dbPerOctave, pivotHz: frequency(o.pivotHz, at('pivotHz'), sampleRate) };
+    }
+    case 'lowShelf':
+    case 'highShelf':
+      allowKeys(o, path, ['kind', 'frequency', 'gainDb']);
+      return { kind, frequency: frequency(o.frequency, at('frequency'), sampleRate), gainDb: targetDb(o.gainDb, at('gainDb')) };
+    case 'points': {
+      allowKeys(o, path, ['kind', 'points']);
+      const list = array(o.points, at('points'));
+      if (list.length < 1 || list.length > LIMITS.targetPointsMax) throw new PlanError(at('points'), `must hold 1 to ${LIMITS.targetPointsMax} points`);
+      const points = list.map((p, i): [number, number] => {
+        const pp = `${at('points')}[${i}]`;
+        const pair = array(p, pp);
+        if (pair.length !== 2) throw new PlanError(pp, 'must be a pair [frequency Hz, dB]');
+        const f = num(pair[0], `${pp}[0]`);
+        if (!(f > 0) || f > LIMITS.measurementFrequencyMaxHz) throw new PlanError(`${pp}[0]`, `must be > 0 and at most ${LIMITS.measurementFrequencyMaxHz} Hz`);
+        return [f, targetDb(pair[1], `${pp}[1]`)];
+      });
+      for (let i = 1; i < points.length; i++) {
+        if (!(points[i][0] > points[i - 1][0])) {
+          throw new PlanError(`${at('points')}[${i}][0]`, `${points[i][0]} Hz does not increase on the one before (${points[i - 1][0]} Hz): frequencies must strictly increase`);
+        }
+      }
+      return { kind, points };
+    }
+  }
 }
 
 function readAcousticOffset(v: unknown, path: string): AcousticOffset {
@@ -491,7 +603,7 @@ function readBands(v: unknown, path: string, fs: number, maxBands: number = LIMI
   });
 }
 
-const BAND_KEYS = ['id', 'type', 'frequency', 'gainDb', 'q', 'slope', 'enabled', 'coefficients', 'design'];
+const BAND_KEYS = ['id', 'type', 'frequency', 'gainDb', 'q', 'slope', 'enabled', 'coefficients', 'design', 'fitted', 'locked'];
 
 function readBand(v: unknown, path: string, fs: number): Band {
   const o = object(v, path);
@@ -530,6 +642,9 @@ function readBand(v: unknown, path: string, fs: number): Band {
     }
   }
   if (o.coefficients !== undefined) band.coefficients = readCoefficients(o.coefficients, `${path}.coefficients`);
+  // Version 3, kept only when given: a band read without them is written without them.
+  if (o.fitted !== undefined) band.fitted = bool(o.fitted, `${path}.fitted`);
+  if (o.locked !== undefined) band.locked = bool(o.locked, `${path}.locked`);
   if (isRaw && !band.coefficients) throw new PlanError(`${path}.coefficients`, 'required for a raw band');
   if (o.design !== undefined) {
     band.design = oneOf(o.design, `${path}.design`, DESIGN_METHODS) as DesignMethod;

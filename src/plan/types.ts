@@ -67,6 +67,10 @@ export interface Band {
   coefficients?: RawCoefficients;
   /** Version 3: how the band becomes a section; absent: the plan's `defaultDesign`, else "bilinear". */
   design?: DesignMethod;
+  /** Version 3: placed by the fitter (a later fit of the same chain replaces it unless locked); absent: false. */
+  fitted?: boolean;
+  /** Version 3: a fit keeps this band exactly as it is; absent: false. */
+  locked?: boolean;
 }
 
 /**
@@ -171,6 +175,39 @@ export interface Plan {
   systemMeasurementIds?: string[];
   /** Version 3: the design method of bands that name none; absent: "bilinear". */
   defaultDesign?: DesignMethod;
+  /** Version 3: the response fits aim for, at most one per output and one for the system. */
+  targets?: Target[];
+}
+
+/**
+ * One piece of a target curve, in dB; a target is the sum of its parts (docs/fitting.md).
+ * `points`: [frequency Hz, dB] pairs, straight lines on log f, constant beyond the ends.
+ * `crossover`: the magnitude of the output's own edges (its electrical crossover shape).
+ */
+export type TargetPart =
+  | { kind: 'flat' }
+  | { kind: 'tilt'; dbPerOctave: number; pivotHz: number }
+  | { kind: 'lowShelf' | 'highShelf'; frequency: number; gainDb: number }
+  | { kind: 'points'; points: [number, number][] }
+  | { kind: 'crossover' };
+export type TargetPartKind = TargetPart['kind'];
+export const TARGET_PART_KINDS: readonly TargetPartKind[] = ['flat', 'tilt', 'lowShelf', 'highShelf', 'points', 'crossover'];
+
+/** Version 3: what a fit of an output (its acoustic response) or of the system aims for. */
+export interface Target {
+  scope: 'output' | 'system';
+  /** The output, when `scope` is "output". */
+  outputId?: string;
+  parts: TargetPart[];
+  /** How the target's level is aligned to the response over the range when `levelDb` is absent. */
+  alignment: 'mean' | 'median';
+  /** dB added to the target's shape; absent: found by `alignment`. */
+  levelDb?: number;
+  /** Hz, the range of the fit; absent: 20 Hz and 20 kHz, within the measurement and the audio band. */
+  fromHz?: number;
+  toHz?: number;
+  /** dB, the tolerance drawn around the target and reported against (default 1). */
+  toleranceDb: number;
 }
 
 /** The air temperature a plan without one uses, degrees Celsius. */
@@ -273,6 +310,13 @@ export const LIMITS = {
   acousticOffsetMsAbsMax: 300,
   airTemperatureCMin: -40,
   airTemperatureCMax: 60,
+  /** Targets (version 3). */
+  targetPartsMax: 16,
+  targetPointsMax: 4096,
+  targetDbAbsMax: 100,
+  targetTiltDbPerOctaveAbsMax: 24,
+  targetToleranceDbMin: 0.1,
+  targetToleranceDbMax: 24,
 } as const;
 
 /**

@@ -2,7 +2,7 @@
  * Writing a plan: UTF-8 JSON, 2-space indent, one stable key order (the order of the contract),
  * so plans diff well under version control. Optional band fields are written when set.
  */
-import type { Band, BoardProfile, Crossover, Measurement, Output, Plan } from './types';
+import type { Band, BoardProfile, Crossover, Measurement, Output, Plan, Target } from './types';
 
 function edge(e: Crossover | null): Record<string, unknown> | null {
   if (!e) return null;
@@ -23,6 +23,8 @@ function band(b: Band): Record<string, unknown> {
   }
   // Version 3, written only when set.
   if (b.design !== undefined) o.design = b.design;
+  if (b.fitted !== undefined) o.fitted = b.fitted;
+  if (b.locked !== undefined) o.locked = b.locked;
   return o;
 }
 
@@ -77,7 +79,21 @@ export function planToJson(plan: Plan): Record<string, unknown> {
   if (plan.airTemperatureC !== undefined) o.airTemperatureC = plan.airTemperatureC;
   if (plan.systemMeasurementIds !== undefined) o.systemMeasurementIds = [...plan.systemMeasurementIds];
   if (plan.defaultDesign !== undefined) o.defaultDesign = plan.defaultDesign;
+  if (plan.targets !== undefined) o.targets = plan.targets.map(targetToJson);
   if (plan.measurements !== undefined) o.measurements = plan.measurements.map(measurementToJson);
+  return o;
+}
+
+/** A target as a plain object in the contract's key order (optional fields only when set). */
+export function targetToJson(t: Target): Record<string, unknown> {
+  const o: Record<string, unknown> = { scope: t.scope };
+  if (t.outputId !== undefined) o.outputId = t.outputId;
+  o.parts = t.parts.map((p) => (p.kind === 'points' ? { kind: p.kind, points: p.points.map(([f, db]) => [f, db]) } : { ...p }));
+  o.alignment = t.alignment;
+  if (t.levelDb !== undefined) o.levelDb = t.levelDb;
+  if (t.fromHz !== undefined) o.fromHz = t.fromHz;
+  if (t.toHz !== undefined) o.toHz = t.toHz;
+  o.toleranceDb = t.toleranceDb;
   return o;
 }
 

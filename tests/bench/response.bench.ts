@@ -27,6 +27,7 @@ import {
 } from '../../src/response/kernel';
 import { logFrequencies } from '../../src/response/chain-response';
 import { measureBenchText, runMeasureBench } from './measure.bench';
+import { fitBenchText, runFitBench } from './fit.bench';
 
 const SIZES = [
   { sections: 16, points: 2048 },
@@ -171,9 +172,10 @@ const sizes = SIZES.map((s, i) => {
 const loadAfter = loadavg();
 const loadAverage = { before: loadBefore.map((x) => +x.toFixed(2)), after: loadAfter.map((x) => +x.toFixed(2)) };
 const measure = runMeasureBench();
+const fit = runFitBench();
 if (json) {
   process.stdout.write(
-    JSON.stringify({ sizes, measure, loadAverage, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
+    JSON.stringify({ sizes, measure, fit, loadAverage, kernel: 'wasm', goal: { nsPerPointSection: GOAL_NS, scipyRatio: GOAL_SCIPY_RATIO }, node: process.version, scipy: scipy?.version ?? null }) + '\n',
   );
 } else {
   console.log(
@@ -190,4 +192,5 @@ if (json) {
   console.log(`goal: at most ${GOAL_NS} ns per point x section and at least ${GOAL_SCIPY_RATIO}x faster than sosfreqz at every size`);
   console.log(`load average (1, 5, 15 min) before ${loadAverage.before.join(' ')}, after ${loadAverage.after.join(' ')}`);
   console.log(measureBenchText(measure));
+  console.log(fitBenchText(fit));
 }
