@@ -64,13 +64,30 @@ export interface CrampingEntry extends Deviation {
   frequencyOfItemHz: number;
 }
 
+/**
+ * Figures on the default grid, kept per band or edge object and the inputs that change them: an
+ * edit replaces only what it touches, so `check` on every keystroke (the status bar) recomputes
+ * one band's figure, not a thousand.
+ */
+const kept = new WeakMap<object, { key: string; value: Deviation | null }>();
+function keptFigure(item: object, key: string, compute: () => Deviation | null): Deviation | null {
+  const k = kept.get(item);
+  if (k && k.key === key) return k.value;
+  const value = compute();
+  kept.set(item, { key, value });
+  return value;
+}
+
 /** Cramping of every enabled band (not raw) and every edge of a plan, in plan order. */
-export function planCramping(plan: Plan, grid = crampingGrid(plan.sampleRate)): CrampingEntry[] {
+export function planCramping(plan: Plan, grid?: Float64Array): CrampingEntry[] {
   const out: CrampingEntry[] = [];
+  const onGrid = grid ?? crampingGrid(plan.sampleRate);
+  const figure = (item: object, method: string, compute: () => Deviation | null) =>
+    grid ? compute() : keptFigure(item, `${plan.sampleRate} ${method}`, compute);
   const bands = (chain: string, list: readonly Band[]) => {
     for (const b of list) {
       if (!b.enabled) continue;
-      const d = bandCramping(b, plan.sampleRate, plan.defaultDesign, grid);
+      const d = figure(b, plan.defaultDesign ?? 'bilinear', () => bandCramping(b, plan.sampleRate, plan.defaultDesign, onGrid));
       if (d) out.push({ ...d, target: { kind: 'band', chain, bandId: b.id }, method: bandDesignMethod(b, plan.defaultDesign), frequencyOfItemHz: b.frequency });
     }
   };
@@ -78,7 +95,7 @@ export function planCramping(plan: Plan, grid = crampingGrid(plan.sampleRate)): 
   for (const o of plan.outputs) {
     for (const kind of ['highPass', 'lowPass'] as const) {
       const e = o[kind];
-      if (e) out.push({ ...edgeCramping(e, kind, plan.sampleRate, grid), target: { kind: 'edge', outputId: o.id, edge: kind }, method: 'bilinear', frequencyOfItemHz: e.frequency });
+      if (e) out.push({ ...(figure(e, kind, () => edgeCramping(e, kind, plan.sampleRate, onGrid)) as Deviation), target: { kind: 'edge', outputId: o.id, edge: kind }, method: 'bilinear', frequencyOfItemHz: e.frequency });
     }
     bands(o.id, o.bands);
   }

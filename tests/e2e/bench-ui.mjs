@@ -162,10 +162,27 @@ async function benchCase(browser, server, outputs, bands, goal) {
     return { points: p.frequencies.length, curves: p.magnitude.length };
   });
   console.log(`bench:ui  ${outputs} outputs x ${bands} bands, ${plotted.curves} curves x 3 plots, ${plotted.points} points per curve, window 1000 px`);
+  const dragCdp = process.env.BENCH_PROFILE ? await page.context().newCDPSession(page) : null;
+  if (dragCdp) await dragCdp.send('Profiler.enable').then(() => dragCdp.send('Profiler.start'));
   const out = await drag(page, 'b8');
+  if (dragCdp) {
+    const { profile } = await dragCdp.send('Profiler.stop');
+    const { writeFileSync, mkdirSync } = await import('node:fs');
+    mkdirSync(process.env.BENCH_PROFILE, { recursive: true });
+    writeFileSync(`${process.env.BENCH_PROFILE}/drag-${outputs}x${bands}.cpuprofile`, JSON.stringify(profile));
+  }
   report('output band drag', out);
   await page.getByTestId('band-row').nth(7).click();
+  // BENCH_PROFILE=DIR writes a V8 CPU profile of the nudges (open it in the browser's devtools).
+  const cdp = process.env.BENCH_PROFILE ? await page.context().newCDPSession(page) : null;
+  if (cdp) await cdp.send('Profiler.enable').then(() => cdp.send('Profiler.start'));
   const nudge = await nudges(page);
+  if (cdp) {
+    const { profile } = await cdp.send('Profiler.stop');
+    const { writeFileSync, mkdirSync } = await import('node:fs');
+    mkdirSync(process.env.BENCH_PROFILE, { recursive: true });
+    writeFileSync(`${process.env.BENCH_PROFILE}/nudge-${outputs}x${bands}.cpuprofile`, JSON.stringify(profile));
+  }
   console.log(`bench:ui  keyboard nudge (${nudge.count} of ${NUDGES} timed): input to painted plots median=${nudge.frames.median.toFixed(1)} ms p95=${nudge.frames.p95.toFixed(1)} ms max=${nudge.frames.max.toFixed(1)} ms; plot update median=${nudge.draws.median.toFixed(1)} ms`);
   // An input-chain band: every output and the sum change each frame (informational).
   await page.getByTestId('chain-input').click();
