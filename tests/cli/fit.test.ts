@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { runCli, type CliIo } from '../../src/cli/run';
 import { readPlanText } from '../../src/plan/read';
 import { writePlanText } from '../../src/plan/write';
-import { driverPlan, inverseCase, roomCase, systemPlan } from './helpers';
+import { driverPlan, inverseCase, roomCase, systemPlan } from '../fit/helpers';
 
 const FILES: Record<string, string> = {
   'room.bqplan': writePlanText(systemPlan(roomCase)),
