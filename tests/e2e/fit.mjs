@@ -20,7 +20,7 @@ try {
   await page.waitForFunction(() => window.__biquadrant && window.__biquadrant.plan);
   await openPlanText(page, 'two-way-measured.bqplan', readFileSync(`${root}/assets/two-way-measured.bqplan`, 'utf8'));
   await page.waitForFunction(() => window.__biquadrant.plan().name.includes('measured'));
-  const bands = () => page.evaluate(() => window.__biquadrant.plan().outputs[0].bands.map((b) => ({ id: b.id, fitted: b.fitted === true, gainDb: b.gainDb })));
+  const bands = () => page.evaluate(() => window.__biquadrant.plan().outputs[0].bands.map((b) => ({ id: b.id, type: b.type, fitted: b.fitted === true, gainDb: b.gainDb })));
   const plottedIds = () => page.evaluate(() => window.__biquadrant.plotted().magnitude.map((s) => s.id));
 
   await check('the Target panel sits with the chain; a target set there is stored in the plan and drawn dashed with its tolerance', async () => {
@@ -87,6 +87,23 @@ try {
     await page.waitForFunction(() => !window.__biquadrant.plan().outputs[0].bands.some((b) => b.fitted === true));
     await page.keyboard.press('Control+Shift+z');
     await page.waitForFunction(() => window.__biquadrant.plan().outputs[0].bands.some((b) => b.fitted === true));
+  });
+
+  await check('Shelves at the range ends: the proposal may use a low and a high shelf besides peaking bands', async () => {
+    await page.keyboard.press('Control+z');
+    await page.waitForFunction(() => !window.__biquadrant.plan().outputs[0].bands.some((b) => b.fitted === true));
+    await page.getByTestId('fit-shelves').check();
+    await page.getByTestId('fit-run').click();
+    await page.getByTestId('fit-proposal').waitFor({ timeout: 60000 });
+    await page.getByTestId('fit-accept').click();
+    await page.waitForFunction(() => window.__biquadrant.plan().outputs[0].bands.some((b) => b.fitted === true));
+    const added = (await bands()).filter((b) => b.fitted);
+    const types = added.map((b) => b.type);
+    assert(types.includes('lowShelf') || types.includes('highShelf'), `no shelf among the fitted bands: ${types}`);
+    assert(added.length <= 4 && added.every((b) => b.gainDb <= 6), `limits not kept: ${JSON.stringify(added)}`);
+    await page.keyboard.press('Control+z');
+    await page.waitForFunction(() => !window.__biquadrant.plan().outputs[0].bands.some((b) => b.fitted === true));
+    await page.getByTestId('fit-shelves').uncheck();
   });
 
   await check('a breakpoint target: its points are handles on the plot; a drag moves one, one undo puts it back', async () => {
