@@ -5,7 +5,7 @@
 // matched offer. Screenshots go to test-results/. The last line reads `e2e cramping: N passed, M failed`.
 import { mkdirSync } from 'node:fs';
 import { register } from 'tsx/esm/api';
-import { buildWeb, launchBrowser, root, serveWeb, assert, checkRunner } from './serve.mjs';
+import { browserChecks, root, assert, checkRunner } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
 
 register();
@@ -44,16 +44,7 @@ const scenario = {
 };
 
 async function main() {
-  if (!process.env.NO_BUILD) await buildWeb();
-  const server = await serveWeb();
-  const browser = await launchBrowser();
-  const errors = [];
-  try {
-    const page = await (await browser.newContext({ viewport: { width: 1400, height: 900 } })).newPage();
-    page.on('console', (m) => {
-      if (m.type() === 'error') errors.push(`console error: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => errors.push(`page error: ${e.message}`));
+  await browserChecks(tally, 'e2e cramping', { viewport: { width: 1400, height: 900 } }, async ({ page, browser, server, errors }) => {
     const hook = (fn, arg) => page.evaluate(fn, arg);
     const plan = () => hook(() => window.__biquadrant.plan());
     const plotted = () => hook(() => window.__biquadrant.plotted());
@@ -130,13 +121,7 @@ async function main() {
       assert((await plan()).outputs[1].bands[0].design === 'matched', 'the moving band is not matched');
     });
 
-    await check('no console or page errors', async () => assert(errors.length === 0, errors.join('\n')));
-  } finally {
-    await browser.close();
-    await server.close();
-  }
+  });
 }
 
-main()
-  .catch((e) => tally.fail(e))
-  .finally(() => tally.summary('e2e cramping'));
+await main();

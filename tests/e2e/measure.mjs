@@ -7,7 +7,7 @@
 // import, smoothing and interpolation computed here in Node. Screenshots in test-results/.
 import { mkdirSync, readFileSync } from 'node:fs';
 import { register } from 'tsx/esm/api';
-import { assert, buildWeb, checkRunner, launchBrowser, root, serveWeb } from './serve.mjs';
+import { assert, browserChecks, checkRunner, root } from './serve.mjs';
 
 register();
 const { importMeasurement } = await import('../../src/measure/import.ts');
@@ -59,17 +59,7 @@ function compareCurve(curve, want, what) {
 }
 
 async function main() {
-  if (!process.env.NO_BUILD) await buildWeb();
-  const server = await serveWeb();
-  const browser = await launchBrowser();
-  const errors = [];
-  try {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
-    const page = await context.newPage();
-    page.on('console', (m) => {
-      if (m.type() === 'error' || m.type() === 'warning') errors.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => errors.push(`page error: ${e.message}`));
+  await browserChecks(tally, 'e2e measurements', { viewport: { width: 1280, height: 800 } }, async ({ page, browser, server, errors }) => {
     const plan = () => page.evaluate(() => window.__biquadrant.plan());
     const plotted = () => page.evaluate(() => window.__biquadrant.plotted());
     await page.goto(server.url);
@@ -247,15 +237,7 @@ async function main() {
       assert(!(await plotted()).magnitude.some((c) => c.id === 'sys:room2'), 'curve left after remove');
     });
 
-    await check('no console errors or page errors', async () => {
-      assert(errors.length === 0, errors.join('\n'));
-    });
-  } finally {
-    await browser.close();
-    await server.close();
-  }
+  });
 }
 
-main()
-  .catch((e) => tally.fail(e))
-  .finally(() => tally.summary('e2e measurements'));
+await main();

@@ -7,7 +7,7 @@
 // to test-results/. Exits non-zero on any failure; the last line reads `e2e plots: N passed, M failed`.
 import { mkdirSync, readFileSync } from 'node:fs';
 import { register } from 'tsx/esm/api';
-import { buildWeb, launchBrowser, root, serveWeb, assert, checkRunner } from './serve.mjs';
+import { browserChecks, root, assert, checkRunner } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
 
 register();
@@ -50,17 +50,7 @@ function overlappingPlan() {
 }
 
 async function main() {
-  if (!process.env.NO_BUILD) await buildWeb();
-  const server = await serveWeb();
-  const browser = await launchBrowser();
-  const errors = [];
-  try {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 720 } });
-    const page = await context.newPage();
-    page.on('console', (m) => {
-      if (m.type() === 'error' || m.type() === 'warning') errors.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => errors.push(`page error: ${e.message}`));
+  await browserChecks(tally, 'e2e plots', { viewport: { width: 1280, height: 720 } }, async ({ page, browser, server, errors }) => {
     const hook = (fn, arg) => page.evaluate(fn, arg);
     const plan = () => hook(() => window.__biquadrant.plan());
     const plotted = () => hook(() => window.__biquadrant.plotted());
@@ -326,15 +316,7 @@ async function main() {
       await page.getByTestId('view-response').click();
     });
 
-    await check('no console errors or page errors', async () => {
-      assert(errors.length === 0, errors.join('\n'));
-    });
-  } finally {
-    await browser.close();
-    await server.close();
-  }
+  });
 }
 
-main()
-  .catch((e) => tally.fail(e))
-  .finally(() => tally.summary('e2e plots'));
+await main();

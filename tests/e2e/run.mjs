@@ -6,7 +6,7 @@
 // test-results/. Exits non-zero on any failure; the last line reads `e2e: N passed, M failed`.
 import { mkdirSync, readFileSync } from 'node:fs';
 import { register } from 'tsx/esm/api';
-import { buildWeb, launchBrowser, root, serveWeb, assert, checkRunner } from './serve.mjs';
+import { browserChecks, root, assert, checkRunner } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
 import { practiceChecks } from './practice.mjs';
 
@@ -62,19 +62,9 @@ function comparePlotted(plotted, plan) {
 }
 
 async function main() {
-  if (!process.env.NO_BUILD) await buildWeb();
-  const server = await serveWeb();
-  const browser = await launchBrowser();
-  const errors = [];
-  try {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, acceptDownloads: true });
-    // Saves here go through the download fallback; the browser save dialog has its own check below.
-    await context.addInitScript(() => Object.defineProperty(window, 'showSaveFilePicker', { value: undefined, configurable: true }));
-    const page = await context.newPage();
-    page.on('console', (m) => {
-      if (m.type() === 'error' || m.type() === 'warning') errors.push(`console ${m.type()}: ${m.text()}`);
-    });
-    page.on('pageerror', (e) => errors.push(`page error: ${e.message}`));
+  // Saves here go through the download fallback; the browser save dialog has its own check below.
+  const noSavePicker = (context) => context.addInitScript(() => Object.defineProperty(window, 'showSaveFilePicker', { value: undefined, configurable: true }));
+  await browserChecks(tally, 'e2e', { viewport: { width: 1280, height: 800 }, acceptDownloads: true }, async ({ page, context, browser, server, errors }) => {
     const hook = (fn, arg) => page.evaluate(fn, arg);
     const plan = () => hook(() => window.__biquadrant.plan());
     const plotted = () => hook(() => window.__biquadrant.plotted());
@@ -600,15 +590,7 @@ async function main() {
     });
     await practiceChecks(browser, server.url, check);
 
-    await check('no console errors or page errors', async () => {
-      assert(errors.length === 0, errors.join('\n'));
-    });
-  } finally {
-    await browser.close();
-    await server.close();
-  }
+  }, noSavePicker);
 }
 
-main()
-  .catch((e) => tally.fail(e))
-  .finally(() => tally.summary('e2e'));
+await main();

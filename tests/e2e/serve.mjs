@@ -71,3 +71,36 @@ export function checkRunner(only = process.env.ONLY) {
 export function assert(cond, message) {
   if (!cond) throw new Error(message);
 }
+
+/**
+ * One browser session of checks, as every browser test file runs them: builds the app (unless
+ * NO_BUILD), serves it, opens a page (`context` options: viewport and the like; `init(context)`
+ * may add scripts before it opens) that records console errors and warnings and page errors,
+ * runs `body({ page, context, browser, server, errors })`, checks that nothing was recorded, closes all and
+ * prints `tally.summary(label)`.
+ */
+export async function browserChecks(tally, label, context, body, init = async () => {}) {
+  let server;
+  let browser;
+  try {
+    if (!process.env.NO_BUILD) await buildWeb();
+    server = await serveWeb();
+    browser = await launchBrowser();
+    const ctx = await browser.newContext(context);
+    await init(ctx);
+    const page = await ctx.newPage();
+    const errors = [];
+    page.on('console', (m) => {
+      if (m.type() === 'error' || m.type() === 'warning') errors.push(`console ${m.type()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => errors.push(`page error: ${e.message}`));
+    await body({ page, context: ctx, browser, server, errors });
+    await tally.check('no console errors or warnings, no page errors', async () => assert(errors.length === 0, errors.join('\n')));
+  } catch (e) {
+    tally.fail(e);
+  } finally {
+    await browser?.close();
+    await server?.close();
+    tally.summary(label);
+  }
+}
