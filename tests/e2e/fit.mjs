@@ -2,20 +2,15 @@
 // dashed with its tolerance on the Response plot, Fit in a Web Worker with progress and Cancel,
 // the proposal previewed, Accept as one undoable step. Screenshots in test-results/.
 import { mkdirSync, readFileSync } from 'node:fs';
-import { buildWeb, launchBrowser, root, serveWeb, assert, checkRunner } from './serve.mjs';
+import { browserChecks, root, assert, checkRunner } from './serve.mjs';
 import { openPlanText } from './bench-ui.mjs';
 
 const OUT = `${root}/test-results`;
 mkdirSync(OUT, { recursive: true });
-if (!process.env.NO_BUILD) await buildWeb();
-const server = await serveWeb();
-const browser = await launchBrowser();
-const { check, fail, summary } = checkRunner();
+const tally = checkRunner();
+const { check } = tally;
 
-try {
-  const page = await browser.newPage({ viewport: { width: 1400, height: 900 } });
-  const errors = [];
-  page.on('pageerror', (e) => errors.push(String(e)));
+await browserChecks(tally, 'fit', { viewport: { width: 1400, height: 900 } }, async ({ page, server }) => {
   await page.goto(server.url);
   await page.waitForFunction(() => window.__biquadrant && window.__biquadrant.plan);
   await openPlanText(page, 'two-way-measured.bqplan', readFileSync(`${root}/assets/two-way-measured.bqplan`, 'utf8'));
@@ -124,14 +119,4 @@ try {
     await page.keyboard.press('Control+z');
     await page.waitForFunction((b) => JSON.stringify(window.__biquadrant.plan().targets[0].parts[0].points[2]) === JSON.stringify(b), before);
   });
-
-  await check('no page errors', async () => {
-    assert(errors.length === 0, errors.join('\n'));
-  });
-} catch (e) {
-  fail(e);
-} finally {
-  await browser.close();
-  await server.close();
-}
-summary('fit');
+});
